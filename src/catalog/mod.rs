@@ -1,0 +1,303 @@
+//! The built-in solutes and ingredients, read from `catalog.toml` (embedded at
+//! build time) once per process. Where a solute has measured freezing points,
+//! its model parameters are fitted to them here, at load, and its binary
+//! freezing curve is tabulated for the ZSR rule.
+//!
+//! A recipe's own solutes and ingredients are layered on top with
+//! [`Catalog::with_additions`], which validates them.
+
+mod spec;
+mod suggest;
+
+use std::collections::HashMap;
+use std::sync::{Arc, OnceLock};
+
+use crate::model::{Ingredient, Solute};
+use crate::thermo::binary::Binary;
+use crate::thermo::zsr::FreezingTable;
+
+pub use spec::{CatalogFileError, parse_catalog};
+pub use suggest::{did_you_mean as suggest_text, nearest};
+
+/// Tolerance on a composition's total (mass %): 100 ± this.
+pub const COMPOSITION_TOLERANCE_PCT: f64 = 0.05;
+
+/// A solute with its binary model and tabulated freezing curve.
+#[derive(Debug, Clone)]
+pub struct SoluteEntry {
+    /// The solute.
+    pub solute: Solute,
+    /// Its binary model with the dissociation factor.
+    pub binary: Binary,
+    /// Its binary freezing curve on the ZSR grid.
+    pub table: FreezingTable,
+}
+
+impl SoluteEntry {
+    /// Builds the entry, tabulating the freezing curve.
+    pub fn new(solute: Solute) -> SoluteEntry {
+        let binary = Binary {
+            dissociation: solute.dissociation,
+            model: solute.model.clone(),
+        };
+        let table = FreezingTable::new(&binary);
+        SoluteEntry {
+            solute,
+            binary,
+            table,
+        }
+    }
+}
+
+/// Something wrong with a user's own solute or ingredient.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum CatalogError {
+    /// The id is already taken.
+    #[error("the id `{0}` is already used by a built-in solute or ingredient; choose another id")]
+    DuplicateId(String),
+    /// The id is not kebab-case.
+    #[error("the id `{0}` must be lower-case letters, digits and dashes (like `house-syrup`)")]
+    BadId(String),
+    /// A number that must be positive is not.
+    #[error("{field} of `{id}` must be a positive number, not {value}")]
+    NotPositive {
+        /// The item's id.
+        id: String,
+        /// Which field.
+        field: &'static str,
+        /// The value given.
+        value: f64,
+    },
+    /// A composition part is negative or not finite.
+    #[error("{field} of `{id}` must be between 0 and 100, not {value}")]
+    BadPart {
+        /// The item's id.
+        id: String,
+        /// Which part.
+        field: String,
+        /// The value given.
+        value: f64,
+    },
+    /// The composition does not add up to 100.
+    #[error(
+        "the composition of `{id}` adds up to {total:.2} %, not 100 % (water, fat, protein, other solids and solutes together)"
+    )]
+    NotHundred {
+        /// The ingredient's id.
+        id: String,
+        /// What it adds up to (mass %).
+        total: f64,
+    },
+    /// A composition names a solute that does not exist.
+    #[error("`{ingredient}` contains the unknown solute `{solute}`{}", suggest::did_you_mean(.suggestions))]
+    UnknownSolute {
+        /// The ingredient's id.
+        ingredient: String,
+        /// The unknown solute id.
+        solute: String,
+        /// The nearest known solute ids.
+        suggestions: Vec<String>,
+    },
+}
+
+/// Solutes and ingredients by id.
+#[derive(Debug, Clone, Default)]
+pub struct Catalog {
+    solutes: Vec<Arc<SoluteEntry>>,
+    solute_index: HashMap<String, usize>,
+    ingredients: Vec<Arc<Ingredient>>,
+    ingredient_index: HashMap<String, usize>,
+}
+
+static BUILTIN: OnceLock<Catalog> = OnceLock::new();
+
+/// The embedded catalog file.
+pub const CATALOG_TOML: &str = include_str!("catalog.toml");
+
+impl Catalog {
+    /// The built-in catalog, loaded and fitted on first use.
+    ///
+    /// # Panics
+    /// Only if the embedded `catalog.toml` is broken, which the test suite rules out.
+    pub fn builtin() -> &'static Catalog {
+        BUILTIN.get_or_init(|| match parse_catalog(CATALOG_TOML) {
+            Ok((solutes, ingredients)) => {
+                let mut c = Catalog::default();
+                for s in solutes {
+                    c.push_solute(SoluteEntry::new(s));
+                }
+                for i in ingredients {
+                    c.push_ingredient(i);
+                }
+                c
+            }
+            Err(e) => panic!("the built-in catalog.toml is invalid: {e}"),
+        })
+    }
+
+    fn push_solute(&mut self, entry: SoluteEntry) {
+        let pure = Ingredient::pure(&entry.solute);
+        self.solute_index
+            .insert(entry.solute.id.clone(), self.solutes.len());
+        self.solutes.push(Arc::new(entry));
+        self.push_ingredient(pure);
+    }
+
+    fn push_ingredient(&mut self, ingredient: Ingredient) {
+        self.ingredient_index
+            .insert(ingredient.id.clone(), self.ingredients.len());
+        self.ingredients.push(Arc::new(ingredient));
+    }
+
+    /// The solute with this id.
+    pub fn solute(&self, id: &str) -> Option<&SoluteEntry> {
+        self.solute_index.get(id).map(|k| self.solutes[*k].as_ref())
+    }
+
+    /// The ingredient with this id (every solute id is also one).
+    pub fn ingredient(&self, id: &str) -> Option<&Ingredient> {
+        self.ingredient_index
+            .get(id)
+            .map(|k| self.ingredients[*k].as_ref())
+    }
+
+    /// All solutes, in catalog order.
+    pub fn solutes(&self) -> impl Iterator<Item = &SoluteEntry> {
+        self.solutes.iter().map(|s| s.as_ref())
+    }
+
+    /// All ingredients, in catalog order (pure solutes included).
+    pub fn ingredients(&self) -> impl Iterator<Item = &Ingredient> {
+        self.ingredients.iter().map(|i| i.as_ref())
+    }
+
+    /// The nearest known ingredient ids to `id`, best first.
+    pub fn nearest_ingredients(&self, id: &str) -> Vec<String> {
+        nearest(id, self.ingredient_index.keys().map(String::as_str), 3)
+    }
+
+    /// The nearest known solute ids to `id`, best first.
+    pub fn nearest_solutes(&self, id: &str) -> Vec<String> {
+        nearest(id, self.solute_index.keys().map(String::as_str), 3)
+    }
+
+    /// This catalog plus a user's own solutes and ingredients, each validated.
+    /// Returns the first problem found.
+    pub fn with_additions(
+        &self,
+        solutes: &[Solute],
+        ingredients: &[Ingredient],
+    ) -> Result<Catalog, CatalogError> {
+        let mut c = self.clone();
+        for s in solutes {
+            validate_solute(s)?;
+            if c.ingredient(&s.id).is_some() {
+                return Err(CatalogError::DuplicateId(s.id.clone()));
+            }
+            c.push_solute(SoluteEntry::new(s.clone()));
+        }
+        for i in ingredients {
+            c.validate_ingredient(i)?;
+            if c.ingredient(&i.id).is_some() {
+                return Err(CatalogError::DuplicateId(i.id.clone()));
+            }
+            c.push_ingredient(i.clone());
+        }
+        Ok(c)
+    }
+
+    /// Checks an ingredient's id, parts, total, solutes and density against this catalog.
+    pub fn validate_ingredient(&self, i: &Ingredient) -> Result<(), CatalogError> {
+        validate_id(&i.id)?;
+        let parts = [
+            ("water_pct", i.water_pct),
+            ("fat_pct", i.fat_pct),
+            ("protein_pct", i.protein_pct),
+            ("other_solids_pct", i.other_solids_pct),
+        ];
+        for (field, value) in parts {
+            check_part(&i.id, field, value)?;
+        }
+        for (solute, value) in &i.solutes_pct {
+            check_part(&i.id, solute, *value)?;
+            if self.solute(solute).is_none() {
+                return Err(CatalogError::UnknownSolute {
+                    ingredient: i.id.clone(),
+                    solute: solute.clone(),
+                    suggestions: self.nearest_solutes(solute),
+                });
+            }
+        }
+        let total = i.total_pct();
+        if (total - 100.0).abs() > COMPOSITION_TOLERANCE_PCT {
+            return Err(CatalogError::NotHundred {
+                id: i.id.clone(),
+                total,
+            });
+        }
+        if !(i.density_g_ml > 0.0 && i.density_g_ml.is_finite()) {
+            return Err(CatalogError::NotPositive {
+                id: i.id.clone(),
+                field: "density_g_ml",
+                value: i.density_g_ml,
+            });
+        }
+        Ok(())
+    }
+}
+
+fn check_part(id: &str, field: &str, value: f64) -> Result<(), CatalogError> {
+    if !(0.0..=100.0).contains(&value) {
+        return Err(CatalogError::BadPart {
+            id: id.to_string(),
+            field: field.to_string(),
+            value,
+        });
+    }
+    Ok(())
+}
+
+/// Checks that an id is kebab-case: lower-case ASCII letters, digits and single dashes.
+pub fn validate_id(id: &str) -> Result<(), CatalogError> {
+    let ok = !id.is_empty()
+        && id.len() <= 64
+        && id
+            .bytes()
+            .all(|b| b.is_ascii_lowercase() || b.is_ascii_digit() || b == b'-')
+        && !id.starts_with('-')
+        && !id.ends_with('-')
+        && !id.contains("--");
+    if ok {
+        Ok(())
+    } else {
+        Err(CatalogError::BadId(id.to_string()))
+    }
+}
+
+/// Checks a user's solute: id, molar mass, dissociation factor and Norrish K.
+pub fn validate_solute(s: &Solute) -> Result<(), CatalogError> {
+    validate_id(&s.id)?;
+    let positive = [
+        ("molar_mass_g_mol", s.molar_mass_g_mol),
+        ("dissociation", s.dissociation),
+    ];
+    for (field, value) in positive {
+        if !(value > 0.0 && value.is_finite()) {
+            return Err(CatalogError::NotPositive {
+                id: s.id.clone(),
+                field,
+                value,
+            });
+        }
+    }
+    if let crate::thermo::binary::WaterModel::Ideal { norrish_k } = s.model {
+        if !(norrish_k >= 0.0 && norrish_k.is_finite()) {
+            return Err(CatalogError::BadPart {
+                id: s.id.clone(),
+                field: "norrish_k".into(),
+                value: norrish_k,
+            });
+        }
+    }
+    Ok(())
+}

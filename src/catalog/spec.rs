@@ -1,0 +1,195 @@
+//! The catalog file's format, and turning its entries into solutes (fitting
+//! their model parameters to the freezing data given) and ingredients.
+
+use std::collections::BTreeMap;
+
+use serde::Deserialize;
+
+use crate::model::{Category, Ingredient, Solute, SoluteKind};
+use crate::thermo::binary::WaterModel;
+use crate::thermo::fit::{fit_mole_fraction, fit_pitzer, tabulate_freezing_points};
+
+/// A problem in a catalog file.
+#[derive(Debug, thiserror::Error)]
+pub enum CatalogFileError {
+    /// Not valid TOML or not the expected fields.
+    #[error("catalog file: {0}")]
+    Toml(#[from] toml::de::Error),
+    /// An entry's model cannot be built.
+    #[error("catalog entry `{id}`: {why}")]
+    Entry {
+        /// The entry's id.
+        id: String,
+        /// What is wrong.
+        why: String,
+    },
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct CatalogFile {
+    #[serde(default)]
+    solute: Vec<SoluteSpec>,
+    #[serde(default)]
+    ingredient: Vec<IngredientSpec>,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct SoluteSpec {
+    id: String,
+    name: String,
+    kind: SoluteKind,
+    molar_mass_g_mol: f64,
+    dissociation: f64,
+    model: String,
+    #[serde(default)]
+    series_terms: Option<usize>,
+    #[serde(default)]
+    norrish_k: Option<f64>,
+    #[serde(default)]
+    a_phi: Option<f64>,
+    #[serde(default)]
+    beta0: Option<f64>,
+    #[serde(default)]
+    beta1: Option<f64>,
+    #[serde(default)]
+    c_phi: Option<f64>,
+    #[serde(default)]
+    max_molality: Option<f64>,
+    #[serde(default)]
+    sweetness: Option<f64>,
+    #[serde(default)]
+    solubility_g_per_100g_water_0c: Option<f64>,
+    source: String,
+    /// [mass % of solute in the solution, freezing-point depression (K)].
+    #[serde(default)]
+    freezing_data: Vec<[f64; 2]>,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct IngredientSpec {
+    id: String,
+    name: String,
+    category: Category,
+    #[serde(default)]
+    water_pct: f64,
+    #[serde(default)]
+    fat_pct: f64,
+    #[serde(default)]
+    protein_pct: f64,
+    #[serde(default)]
+    other_solids_pct: f64,
+    #[serde(default)]
+    solutes_pct: BTreeMap<String, f64>,
+    density_g_ml: f64,
+    #[serde(default)]
+    allergens: Vec<String>,
+    source: String,
+}
+
+/// Molality (mol/kg water) of a binary solution of `mass_pct` solute (g per 100 g solution).
+pub fn molality_from_mass_pct(mass_pct: f64, molar_mass_g_mol: f64) -> f64 {
+    1000.0 * mass_pct / ((100.0 - mass_pct) * molar_mass_g_mol)
+}
+
+impl SoluteSpec {
+    fn into_solute(self) -> Result<Solute, CatalogFileError> {
+        let fail = |why: &str| CatalogFileError::Entry {
+            id: self.id.clone(),
+            why: why.to_string(),
+        };
+        let points: Vec<(f64, f64)> = self
+            .freezing_data
+            .iter()
+            .map(|[w, dt]| (molality_from_mass_pct(*w, self.molar_mass_g_mol), *dt))
+            .collect();
+        let max_data = points.iter().map(|p| p.0).fold(0.0, f64::max);
+        let norrish_k = self.norrish_k.unwrap_or(0.0);
+        let model = match self.model.as_str() {
+            "ideal" => WaterModel::Ideal { norrish_k },
+            "norrish-series" => {
+                let terms = self
+                    .series_terms
+                    .ok_or_else(|| fail("norrish-series needs series_terms"))?;
+                let coeffs = fit_mole_fraction(self.dissociation, &points, terms)
+                    .ok_or_else(|| fail("freezing_data too few or degenerate for the fit"))?;
+                WaterModel::NorrishSeries {
+                    coeffs,
+                    max_molality: max_data,
+                    norrish_k,
+                }
+            }
+            "tabulated" => {
+                if points.len() < 2 {
+                    return Err(fail("tabulated needs at least two freezing_data rows"));
+                }
+                tabulate_freezing_points(&points)
+            }
+            "pitzer" => {
+                let a_phi = self.a_phi.ok_or_else(|| fail("pitzer needs a_phi"))?;
+                let ([beta0, beta1, c_phi], max_molality) =
+                    match (self.beta0, self.beta1, self.c_phi) {
+                        (Some(b0), Some(b1), Some(c)) => (
+                            [b0, b1, c],
+                            self.max_molality
+                                .ok_or_else(|| fail("pitzer needs max_molality"))?,
+                        ),
+                        _ => (
+                            fit_pitzer(a_phi, &points)
+                                .ok_or_else(|| fail("freezing_data too few for the fit"))?,
+                            max_data,
+                        ),
+                    };
+                WaterModel::Pitzer {
+                    beta0,
+                    beta1,
+                    c_phi,
+                    a_phi,
+                    max_molality,
+                }
+            }
+            other => return Err(fail(&format!("unknown model `{other}`"))),
+        };
+        Ok(Solute {
+            id: self.id,
+            name: self.name,
+            kind: self.kind,
+            molar_mass_g_mol: self.molar_mass_g_mol,
+            dissociation: self.dissociation,
+            model,
+            sweetness: self.sweetness,
+            solubility_g_per_100g_water_0c: self.solubility_g_per_100g_water_0c,
+            source: self.source,
+        })
+    }
+}
+
+/// Parses a catalog file into its solutes (models fitted) and ingredients.
+pub fn parse_catalog(text: &str) -> Result<(Vec<Solute>, Vec<Ingredient>), CatalogFileError> {
+    let file: CatalogFile = toml::from_str(text)?;
+    let solutes = file
+        .solute
+        .into_iter()
+        .map(SoluteSpec::into_solute)
+        .collect::<Result<Vec<_>, _>>()?;
+    let ingredients = file
+        .ingredient
+        .into_iter()
+        .map(|i| Ingredient {
+            id: i.id,
+            name: i.name,
+            category: i.category,
+            water_pct: i.water_pct,
+            fat_pct: i.fat_pct,
+            protein_pct: i.protein_pct,
+            other_solids_pct: i.other_solids_pct,
+            solutes_pct: i.solutes_pct,
+            density_g_ml: i.density_g_ml,
+            allergens: i.allergens,
+            source: i.source,
+        })
+        .collect();
+    Ok((solutes, ingredients))
+}

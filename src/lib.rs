@@ -1,0 +1,21 @@
+//! gelu: a keyboard-only terminal workbench for people who formulate frozen
+//! desserts and liqueurs. It predicts how a mix freezes from what is dissolved
+//! in it, and keeps a traceable log of the batches made from it.
+//!
+//! Data flows one way: file or database -> [`model::Recipe`] -> ([`catalog`]) ->
+//! [`analysis::Mix`] -> [`analysis::Analysis`] -> view or report.
+//!
+//! - [`model`]: plain data (solutes, ingredients, recipes, amounts).
+//! - [`thermo`]: pure physics (ice activity, binary water-activity models, the ZSR
+//!   freezing curve, ethanol-water tables).
+//! - [`catalog`]: the built-in solutes and ingredients, embedded at build time.
+//! - [`analysis`]: recipe -> every figure the user sees, with warnings and cautions.
+//!
+//! `model`, `thermo`, `catalog` and `analysis` are pure: no files, no clock, no
+//! terminal, no SQL.
+#![forbid(unsafe_code)]
+
+pub mod analysis;
+pub mod catalog;
+pub mod model;
+pub mod thermo;
