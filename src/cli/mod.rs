@@ -1,0 +1,45 @@
+//! The command line: clap definitions (the raw flags as typed) and the
+//! subcommands, which resolve them into typed options for the library.
+//! Only this module and `main` decide exit codes.
+
+mod report;
+
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+use clap::{Parser, Subcommand};
+
+/// gelu: formulate frozen desserts and liqueurs, predict how they freeze, and log their batches.
+#[derive(Debug, Parser)]
+#[command(name = "gelu", version, about, long_about = None)]
+pub struct Cli {
+    /// The batch-log database file (default: the platform's data directory; also GELU_DB).
+    #[arg(long, global = true, env = "GELU_DB", value_name = "PATH")]
+    pub db: Option<PathBuf>,
+    /// What to do; with none, open the workspace.
+    #[command(subcommand)]
+    pub command: Option<Command>,
+}
+
+/// The subcommands.
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Analyse recipe files: freezing point, frozen share, composition, warnings.
+    Report(report::ReportArgs),
+}
+
+/// Parses the command line, runs it, and maps the outcome to an exit code.
+pub fn run() -> ExitCode {
+    let cli = Cli::parse();
+    let outcome = match cli.command {
+        Some(Command::Report(args)) => report::run(&args),
+        None => report::run_samples(),
+    };
+    match outcome {
+        Ok(code) => code,
+        Err(e) => {
+            eprintln!("gelu: {e:#}");
+            ExitCode::from(2)
+        }
+    }
+}
