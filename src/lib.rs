@@ -10,13 +10,15 @@
 //!   freezing curve, ethanol-water tables).
 //! - [`catalog`]: the built-in solutes and ingredients, embedded at build time.
 //! - [`analysis`]: recipe -> every figure the user sees, with warnings and cautions.
+//! - [`tui`]: the terminal workspace (recipe editor, ingredients, batch log, settings).
 //!
 //! `model`, `thermo`, `catalog` and `analysis` are pure: no files, no clock, no
 //! terminal, no SQL.
 #![forbid(unsafe_code)]
 
 pub mod analysis;
-pub mod cli;
 pub mod catalog;
+pub mod cli;
 pub mod model;
 pub mod thermo;
+pub mod tui;

@@ -26,6 +26,15 @@ pub struct Cli {
 pub enum Command {
     /// Analyse recipe files: freezing point, frozen share, composition, warnings.
     Report(report::ReportArgs),
+    /// Open a recipe file in the workspace.
+    Edit {
+        /// The recipe file (TOML).
+        file: PathBuf,
+    },
+}
+
+fn workspace(db: Option<PathBuf>, file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
+    crate::tui::run(&crate::tui::Launch { db, file }).map(|()| ExitCode::SUCCESS)
 }
 
 /// Parses the command line, runs it, and maps the outcome to an exit code.
@@ -33,7 +42,8 @@ pub fn run() -> ExitCode {
     let cli = Cli::parse();
     let outcome = match cli.command {
         Some(Command::Report(args)) => report::run(&args),
-        None => report::run_samples(),
+        Some(Command::Edit { file }) => workspace(cli.db, Some(file)),
+        None => workspace(cli.db, None),
     };
     match outcome {
         Ok(code) => code,

@@ -1,0 +1,211 @@
+//! What can happen to the workspace: [`Command`]s are the named things a key can
+//! do (the keymap binds them); [`Action`]s are everything `update` accepts
+//! (commands, typed characters, and the results of effects); [`Effect`]s are the
+//! I/O that `update` asks the loop to carry out.
+
+use std::path::PathBuf;
+
+use crate::model::Recipe;
+
+use super::state::{RecipeSource, Settings};
+
+/// Declares the commands once: the enum, the list of all of them, and their names
+/// and descriptions, so help text and tests can never drift from the enum.
+macro_rules! commands {
+    ($( $name:ident => $id:literal, $desc:literal; )*) => {
+        /// A named thing a key can do; the keymap binds keys to these.
+        #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+        pub enum Command {
+            $( #[doc = $desc] $name, )*
+        }
+
+        impl Command {
+            /// Every command, in declaration order.
+            pub const ALL: &'static [Command] = &[$(Command::$name),*];
+
+            /// Stable kebab-case name.
+            pub fn name(self) -> &'static str {
+                match self { $(Command::$name => $id,)* }
+            }
+
+            /// One-line description, shown in the help overlay.
+            pub fn description(self) -> &'static str {
+                match self { $(Command::$name => $desc,)* }
+            }
+        }
+    };
+}
+
+commands! {
+    Quit => "quit", "Leave gelu (asks first when there are unsaved changes)";
+    Help => "help", "Show every key of the current mode";
+    NextScreen => "next-screen", "Go to the next screen";
+    PrevScreen => "prev-screen", "Go to the previous screen";
+    ShowRecipe => "show-recipe", "Go to the recipe screen";
+    ShowIngredients => "show-ingredients", "Go to the ingredients screen";
+    ShowBatches => "show-batches", "Go to the batch log";
+    ShowSettings => "show-settings", "Go to the settings";
+    Up => "up", "Move the cursor up";
+    Down => "down", "Move the cursor down";
+    PageUp => "page-up", "Move the cursor a page up";
+    PageDown => "page-down", "Move the cursor a page down";
+    First => "first", "Move the cursor to the first row";
+    Last => "last", "Move the cursor to the last row";
+    AddLine => "add-line", "Add a line: pick an ingredient, then type its amount";
+    EditAmount => "edit-amount", "Change the amount of the line under the cursor";
+    DeleteLine => "delete-line", "Delete the line under the cursor";
+    MoveLineUp => "move-line-up", "Move the line under the cursor up";
+    MoveLineDown => "move-line-down", "Move the line under the cursor down";
+    ScaleRecipe => "scale", "Scale the whole recipe to a new total mass";
+    SetServingTarget => "serving-target", "Set the share of water frozen at serving for this recipe";
+    Rename => "rename", "Rename the recipe";
+    Undo => "undo", "Undo the last change to the recipe";
+    Redo => "redo", "Redo the change last undone";
+    Save => "save", "Save: back to its file, or as a new version in the database";
+    SaveAsNew => "save-as-new", "Save as a new recipe in the database under a new name";
+    OpenRecipe => "open-recipe", "Open a recipe from the database";
+    OpenFile => "open-file", "Open a recipe from a TOML file";
+    ShowWarnings => "warnings", "Read every warning and caution in full";
+    Search => "search", "Search the list by text";
+    ClearFilter => "clear-filter", "Clear the search and filters";
+    SwitchList => "switch-list", "Switch between solutes and ingredients";
+    NewIngredient => "new-ingredient", "Create your own ingredient";
+    NewSolute => "new-solute", "Create your own solute";
+    EditOwn => "edit-own", "Edit your own solute or ingredient under the cursor";
+    AddToRecipe => "add-to-recipe", "Add the ingredient under the cursor to the recipe";
+    OpenDetail => "open-detail", "Open the batch under the cursor";
+    FilterRecipe => "filter-recipe", "Show only batches of the recipe in the editor (again: all)";
+    FilterDate => "filter-date", "Show only batches made on or after a date";
+    StartBatch => "start-batch", "Start a batch from the recipe in the editor";
+    AddMeasurement => "add-measurement", "Add a measurement to the open batch";
+    AddNote => "add-note", "Add a note to the open batch";
+    Finalize => "finalize", "Finalise the open batch (it can then only be amended)";
+    Amend => "amend", "Amend a finalised batch with a correcting note";
+    Toggle => "toggle", "Change the setting under the cursor";
+    Confirm => "confirm", "Accept";
+    Cancel => "cancel", "Back out without changing anything";
+    Yes => "yes", "Yes";
+    No => "no", "No";
+    NextField => "next-field", "Go to the next field";
+    PrevField => "prev-field", "Go to the previous field";
+    CursorLeft => "cursor-left", "Move the text cursor left";
+    CursorRight => "cursor-right", "Move the text cursor right";
+    CursorHome => "cursor-home", "Move the text cursor to the start";
+    CursorEnd => "cursor-end", "Move the text cursor to the end";
+    DeleteBack => "delete-back", "Delete the character before the text cursor";
+    DeleteForward => "delete-forward", "Delete the character under the text cursor";
+    DeleteWord => "delete-word", "Delete the word before the text cursor";
+    ClearField => "clear-field", "Clear the whole field";
+}
+
+/// Everything `update` accepts.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Action {
+    /// A command from the keymap.
+    Command(Command),
+    /// A character typed into the text field in focus.
+    Insert(char),
+    /// A recipe was loaded from a file or the database.
+    RecipeLoaded {
+        /// The recipe.
+        recipe: Recipe,
+        /// Where it came from (and where Save writes it back).
+        source: RecipeSource,
+    },
+    /// A save finished; the recipe now lives at `source`.
+    Saved {
+        /// Where the recipe was saved.
+        source: RecipeSource,
+        /// The recipe as saved.
+        recipe: Recipe,
+        /// What to tell the user.
+        message: String,
+    },
+    /// The recipes in the database, for the open dialog.
+    RecipeList(Vec<RecipeEntry>),
+    /// Settings read from the database at start.
+    SettingsLoaded(Settings),
+    /// A page of the batch log arrived.
+    BatchesPage(super::state::BatchPage),
+    /// One batch's detail arrived.
+    BatchDetail(Box<super::state::BatchDetailView>),
+    /// Something the loop did went wrong; the message says what and that data is safe.
+    Failed(String),
+    /// Something the loop did went right; the message says what.
+    Info(String),
+}
+
+/// A recipe in the database, as the open dialog lists it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct RecipeEntry {
+    /// Database id.
+    pub id: i64,
+    /// Name.
+    pub name: String,
+    /// Latest version number.
+    pub version: i64,
+}
+
+/// I/O for the loop to carry out; the outcome comes back as an [`Action`].
+#[derive(Debug, Clone, PartialEq)]
+pub enum Effect {
+    /// Restore the terminal and leave.
+    Quit,
+    /// Read a recipe file.
+    OpenFile(PathBuf),
+    /// Write the recipe back to its file, keeping the comments and layout of `original`.
+    SaveFile {
+        /// The file.
+        path: PathBuf,
+        /// The file's text when it was read (`None` for a new file).
+        original: Option<String>,
+        /// The recipe to write.
+        recipe: Recipe,
+    },
+    /// Save the recipe as a new version of a recipe in the database.
+    SaveVersion {
+        /// Database id of the recipe.
+        recipe_id: i64,
+        /// The recipe.
+        recipe: Recipe,
+    },
+    /// Save the recipe as a new recipe in the database.
+    SaveNewRecipe(Recipe),
+    /// List the recipes in the database.
+    ListRecipes,
+    /// Load the latest version of a recipe from the database.
+    LoadRecipe(i64),
+    /// Store the settings in the database.
+    SaveSettings(Settings),
+    /// Fetch a page of the batch log.
+    LoadBatches(super::state::BatchQuery),
+    /// Fetch one batch's detail.
+    LoadBatchDetail(i64),
+    /// Record a new batch.
+    StartBatch(super::state::NewBatch),
+    /// Add a measurement to a batch.
+    AddMeasurement {
+        /// Batch id.
+        batch_id: i64,
+        /// What was measured (brix, draw-temp-c, overrun-pct, ph, freezing-point-c, …).
+        kind: String,
+        /// The value, in the unit the kind names.
+        value: f64,
+    },
+    /// Add a note to a batch.
+    AddNote {
+        /// Batch id.
+        batch_id: i64,
+        /// The note.
+        text: String,
+    },
+    /// Finalise a batch.
+    Finalize(i64),
+    /// Amend a finalised batch with a correcting note.
+    Amend {
+        /// Batch id.
+        batch_id: i64,
+        /// What is corrected and why.
+        text: String,
+    },
+}

@@ -1,0 +1,68 @@
+//! The loop: draw, block until the next terminal event (no polling, so an idle
+//! workspace uses no CPU), turn it into an action through the keymap, update,
+//! and carry out the effects, whose outcomes are actions again.
+
+use std::collections::VecDeque;
+use std::path::PathBuf;
+
+use ratatui::crossterm::event::{self, Event};
+
+use super::action::{Action, Effect};
+use super::effects::Services;
+use super::keymap;
+use super::state::State;
+use super::terminal;
+use super::update::update;
+use super::view::view;
+
+/// How the workspace was asked to start.
+#[derive(Debug, Clone, Default)]
+pub struct Launch {
+    /// The database file (`None`: the default one).
+    pub db: Option<PathBuf>,
+    /// A recipe file to open (`gelu edit FILE`).
+    pub file: Option<PathBuf>,
+}
+
+/// Whether colour may be used: not when NO_COLOR is set to anything non-empty.
+pub fn colour_allowed() -> bool {
+    std::env::var_os("NO_COLOR").is_none_or(|v| v.is_empty())
+}
+
+/// Opens the workspace and runs it until the user quits.
+pub fn run(launch: &Launch) -> anyhow::Result<()> {
+    let mut services = Services::open(launch)?;
+    let mut state = State::new(colour_allowed());
+    let startup = services.startup(launch);
+    let mut term = terminal::enter()?;
+    let mut queue: VecDeque<Action> = startup.into();
+    let outcome = (|| -> anyhow::Result<()> {
+        loop {
+            if drain(&mut state, &mut services, &mut queue) {
+                return Ok(());
+            }
+            term.draw(|frame| view(&state, frame))?;
+            let event = event::read()?;
+            if let Event::Key(key) = event
+                && let Some(action) = keymap::action_for(state.context(), key)
+            {
+                queue.push_back(action);
+            }
+        }
+    })();
+    terminal::leave();
+    outcome
+}
+
+/// Updates with every queued action and performs the effects; true to quit.
+pub fn drain(state: &mut State, services: &mut Services, queue: &mut VecDeque<Action>) -> bool {
+    while let Some(action) = queue.pop_front() {
+        for effect in update(state, action) {
+            if effect == Effect::Quit {
+                return true;
+            }
+            queue.extend(services.perform(effect));
+        }
+    }
+    false
+}

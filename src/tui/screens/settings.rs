@@ -1,0 +1,99 @@
+//! The settings screen's half of `update`: units toggle in place, numbers and
+//! the operator's name are typed into a prompt. Every change is stored.
+
+use super::super::action::{Command, Effect};
+use super::super::state::{MassUnit, PromptPurpose, SettingField, State, TempUnit};
+use super::super::units::{self, parse_share_pct, parse_temp, temp_value, trim_number};
+use super::move_cursor;
+use super::recipe::prompt;
+
+/// Handles a command on the settings screen.
+pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
+    let len = SettingField::ALL.len();
+    match command {
+        Command::Up
+        | Command::Down
+        | Command::PageUp
+        | Command::PageDown
+        | Command::First
+        | Command::Last => {
+            state.settings_cursor = move_cursor(state.settings_cursor, len, command);
+            Vec::new()
+        }
+        Command::Toggle => {
+            let field = SettingField::ALL[state.settings_cursor.min(len - 1)];
+            toggle(state, field)
+        }
+        _ => Vec::new(),
+    }
+}
+
+fn toggle(state: &mut State, field: SettingField) -> Vec<Effect> {
+    let s = &mut state.settings;
+    match field {
+        SettingField::TempUnit => {
+            s.temp_unit = match s.temp_unit {
+                TempUnit::Celsius => TempUnit::Fahrenheit,
+                TempUnit::Fahrenheit => TempUnit::Celsius,
+            };
+            stored(state)
+        }
+        SettingField::MassUnit => {
+            s.mass_unit = match s.mass_unit {
+                MassUnit::Grams => MassUnit::Imperial,
+                MassUnit::Imperial => MassUnit::Grams,
+            };
+            stored(state)
+        }
+        _ => {
+            let text = current_text(state, field);
+            prompt(
+                state,
+                PromptPurpose::Setting(field),
+                field.label().into(),
+                text,
+            );
+            Vec::new()
+        }
+    }
+}
+
+/// The value of a setting as it is typed.
+pub fn current_text(state: &State, field: SettingField) -> String {
+    let s = &state.settings;
+    match field {
+        SettingField::TempUnit => units::temp_symbol(s.temp_unit).into(),
+        SettingField::MassUnit => match s.mass_unit {
+            MassUnit::Grams => "g and kg".into(),
+            MassUnit::Imperial => "oz and lb".into(),
+        },
+        SettingField::ServingTarget => trim_number(100.0 * s.serving_target),
+        SettingField::CabinetTemp => format!("{:.1}", temp_value(s.cabinet_temp_c, s.temp_unit)),
+        SettingField::FreezerTemp => format!("{:.1}", temp_value(s.freezer_temp_c, s.temp_unit)),
+        SettingField::Operator => s.operator.clone(),
+    }
+}
+
+fn stored(state: &mut State) -> Vec<Effect> {
+    state.reanalyse();
+    vec![Effect::SaveSettings(state.settings.clone())]
+}
+
+/// Accepts a typed setting; `Err` keeps the prompt open with the reason.
+pub fn accept(state: &mut State, field: SettingField, text: &str) -> Result<Vec<Effect>, String> {
+    let unit = state.settings.temp_unit;
+    match field {
+        SettingField::ServingTarget => state.settings.serving_target = parse_share_pct(text)?,
+        SettingField::CabinetTemp => state.settings.cabinet_temp_c = parse_temp(text, unit)?,
+        SettingField::FreezerTemp => state.settings.freezer_temp_c = parse_temp(text, unit)?,
+        SettingField::Operator => {
+            let name = text.trim();
+            if name.chars().count() > 60 {
+                return Err("keep the operator's name under 60 characters".into());
+            }
+            state.settings.operator = name.to_string();
+        }
+        SettingField::TempUnit | SettingField::MassUnit => {}
+    }
+    Ok(stored(state))
+}

@@ -1,0 +1,358 @@
+//! `update(&mut State, Action) -> Vec<Effect>`: the only place the workspace's
+//! state changes. No I/O: anything that reads or writes a file or the database
+//! is returned as an [`Effect`] for the loop to carry out.
+//!
+//! Commands go first to the overlay in focus (prompt, picker, form, reader,
+//! question), then to the global keys, then to the screen shown.
+
+use tui_input::{Input, InputRequest};
+
+use super::action::{Action, Command, Effect};
+use super::screens::{batches, ingredients, recipe, settings};
+use super::state::{Overlay, PickerPurpose, Question, ReaderKind, Screen, State};
+
+/// Applies one action to the state and returns the effects it asks for.
+pub fn update(state: &mut State, action: Action) -> Vec<Effect> {
+    match action {
+        Action::Command(command) => command_update(state, command),
+        Action::Insert(c) => {
+            edit_text(state, InputRequest::InsertChar(c));
+            Vec::new()
+        }
+        Action::RecipeLoaded { recipe, source } => {
+            recipe::loaded(state, recipe, source);
+            Vec::new()
+        }
+        Action::Saved {
+            source,
+            recipe: saved,
+            message,
+        } => {
+            recipe::saved(state, source, saved);
+            state.tell(message);
+            Vec::new()
+        }
+        Action::RecipeList(entries) => {
+            recipe::open_recipe_picker(state, entries);
+            Vec::new()
+        }
+        Action::SettingsLoaded(loaded) => {
+            state.settings = loaded;
+            state.reanalyse();
+            Vec::new()
+        }
+        Action::BatchesPage(page) => {
+            batches::page_arrived(state, page);
+            Vec::new()
+        }
+        Action::BatchDetail(detail) => {
+            state.batches.detail = Some(*detail);
+            Vec::new()
+        }
+        Action::Failed(text) => {
+            state.batches.loading = false;
+            state.warn(text);
+            Vec::new()
+        }
+        Action::Info(text) => {
+            state.tell(text);
+            Vec::new()
+        }
+    }
+}
+
+fn command_update(state: &mut State, command: Command) -> Vec<Effect> {
+    if state.overlay.is_some() {
+        return overlay_update(state, command);
+    }
+    state.message = None;
+    match command {
+        Command::Quit => request_quit(state),
+        Command::Help => {
+            let context = state.context();
+            state.overlay = Some(Overlay::Reader(ReaderKind::Help(context), 0));
+            Vec::new()
+        }
+        Command::NextScreen => show(state, cycle(state.screen, 1)),
+        Command::PrevScreen => show(state, cycle(state.screen, Screen::ALL.len() - 1)),
+        Command::ShowRecipe => show(state, Screen::Recipe),
+        Command::ShowIngredients => show(state, Screen::Ingredients),
+        Command::ShowBatches => show(state, Screen::Batches),
+        Command::ShowSettings => show(state, Screen::Settings),
+        _ => match state.screen {
+            Screen::Recipe => recipe::command(state, command),
+            Screen::Ingredients => ingredients::command(state, command),
+            Screen::Batches => batches::command(state, command),
+            Screen::Settings => settings::command(state, command),
+        },
+    }
+}
+
+fn cycle(screen: Screen, step: usize) -> Screen {
+    let at = Screen::ALL.iter().position(|s| *s == screen).unwrap_or(0);
+    Screen::ALL[(at + step) % Screen::ALL.len()]
+}
+
+fn show(state: &mut State, screen: Screen) -> Vec<Effect> {
+    state.screen = screen;
+    if screen == Screen::Batches && state.batches.rows.is_empty() && !state.batches.loading {
+        return batches::reload(state);
+    }
+    Vec::new()
+}
+
+fn request_quit(state: &mut State) -> Vec<Effect> {
+    if state.recipe.is_dirty() {
+        state.overlay = Some(Overlay::Confirm(Question::QuitUnsaved));
+        Vec::new()
+    } else {
+        vec![Effect::Quit]
+    }
+}
+
+fn overlay_update(state: &mut State, command: Command) -> Vec<Effect> {
+    let Some(overlay) = state.overlay.take() else {
+        return Vec::new();
+    };
+    match overlay {
+        Overlay::Reader(kind, scroll) => {
+            let scroll = match command {
+                Command::Cancel => return Vec::new(),
+                Command::Up => scroll.saturating_sub(1),
+                Command::Down => scroll + 1,
+                Command::PageUp => scroll.saturating_sub(super::state::PAGE_ROWS),
+                Command::PageDown => scroll + super::state::PAGE_ROWS,
+                Command::First => 0,
+                Command::Last => usize::MAX / 2,
+                _ => scroll,
+            };
+            state.overlay = Some(Overlay::Reader(kind, scroll));
+            Vec::new()
+        }
+        Overlay::Confirm(question) => match command {
+            Command::Yes => match question {
+                Question::QuitUnsaved => vec![Effect::Quit],
+                Question::Finalize(id) => vec![Effect::Finalize(id)],
+            },
+            Command::No | Command::Cancel => Vec::new(),
+            _ => {
+                state.overlay = Some(Overlay::Confirm(question));
+                Vec::new()
+            }
+        },
+        Overlay::Prompt(prompt) => match command {
+            Command::Cancel => {
+                cancel_prompt(state, &prompt.purpose);
+                Vec::new()
+            }
+            Command::Confirm => accept_prompt(state, prompt),
+            other => {
+                state.overlay = Some(Overlay::Prompt(prompt));
+                text_command(state, other);
+                Vec::new()
+            }
+        },
+        Overlay::Picker(mut picker) => match command {
+            Command::Cancel => Vec::new(),
+            Command::Confirm => {
+                let picked = picker.items.get(picker.cursor).cloned();
+                match (picked, picker.purpose) {
+                    (Some(item), PickerPurpose::Ingredient) => {
+                        recipe::ask_new_line_amount(state, &item.key);
+                        Vec::new()
+                    }
+                    (Some(item), PickerPurpose::Recipe(_)) => match item.key.parse::<i64>() {
+                        Ok(id) => vec![Effect::LoadRecipe(id)],
+                        Err(_) => Vec::new(),
+                    },
+                    (None, purpose) => {
+                        picker.purpose = purpose;
+                        state.overlay = Some(Overlay::Picker(picker));
+                        Vec::new()
+                    }
+                }
+            }
+            Command::Up => {
+                picker.cursor = picker.cursor.saturating_sub(1);
+                state.overlay = Some(Overlay::Picker(picker));
+                Vec::new()
+            }
+            Command::Down | Command::PageDown | Command::PageUp => {
+                let step = if command == Command::Down {
+                    1
+                } else {
+                    super::state::PAGE_ROWS
+                };
+                picker.cursor = if command == Command::PageUp {
+                    picker.cursor.saturating_sub(step)
+                } else {
+                    (picker.cursor + step).min(picker.items.len().saturating_sub(1))
+                };
+                state.overlay = Some(Overlay::Picker(picker));
+                Vec::new()
+            }
+            other => {
+                state.overlay = Some(Overlay::Picker(picker));
+                text_command(state, other);
+                Vec::new()
+            }
+        },
+        Overlay::Form(mut form) => match command {
+            Command::Cancel => Vec::new(),
+            Command::NextField => {
+                form.focus = (form.focus + 1) % form.fields.len().max(1);
+                state.overlay = Some(Overlay::Form(form));
+                Vec::new()
+            }
+            Command::PrevField => {
+                let n = form.fields.len().max(1);
+                form.focus = (form.focus + n - 1) % n;
+                state.overlay = Some(Overlay::Form(form));
+                Vec::new()
+            }
+            Command::Confirm => submit_form(state, form),
+            other => {
+                state.overlay = Some(Overlay::Form(form));
+                text_command(state, other);
+                Vec::new()
+            }
+        },
+    }
+}
+
+/// The text request of a text-editing command, if it is one.
+fn text_request(command: Command) -> Option<InputRequest> {
+    Some(match command {
+        Command::CursorLeft => InputRequest::GoToPrevChar,
+        Command::CursorRight => InputRequest::GoToNextChar,
+        Command::CursorHome => InputRequest::GoToStart,
+        Command::CursorEnd => InputRequest::GoToEnd,
+        Command::DeleteBack => InputRequest::DeletePrevChar,
+        Command::DeleteForward => InputRequest::DeleteNextChar,
+        Command::DeleteWord => InputRequest::DeletePrevWord,
+        Command::ClearField => InputRequest::DeleteLine,
+        _ => return None,
+    })
+}
+
+fn text_command(state: &mut State, command: Command) {
+    if let Some(request) = text_request(command) {
+        edit_text(state, request);
+    }
+}
+
+fn focused_input(overlay: &mut Overlay) -> Option<&mut Input> {
+    match overlay {
+        Overlay::Prompt(p) => Some(&mut p.input),
+        Overlay::Picker(p) => Some(&mut p.query),
+        Overlay::Form(f) => f.fields.get_mut(f.focus).map(|field| &mut field.input),
+        Overlay::Reader(..) | Overlay::Confirm(_) => None,
+    }
+}
+
+/// Applies a text request to the field in focus, then lets the overlay react
+/// (live search, picker matches, field checks).
+fn edit_text(state: &mut State, request: InputRequest) {
+    let Some(overlay) = state.overlay.as_mut() else {
+        return;
+    };
+    let Some(input) = focused_input(overlay) else {
+        return;
+    };
+    if input.handle(request).is_none_or(|changed| !changed.value) {
+        return;
+    }
+    match state.overlay.take() {
+        Some(Overlay::Prompt(mut prompt)) => {
+            prompt.error = None;
+            let live = prompt.input.value().to_string();
+            let purpose = prompt.purpose.clone();
+            state.overlay = Some(Overlay::Prompt(prompt));
+            live_prompt(state, &purpose, &live);
+        }
+        Some(Overlay::Picker(mut picker)) => {
+            recipe::refresh_picker(state, &mut picker);
+            state.overlay = Some(Overlay::Picker(picker));
+        }
+        Some(Overlay::Form(mut form)) => {
+            check_form(state, &mut form);
+            state.overlay = Some(Overlay::Form(form));
+        }
+        other => state.overlay = other,
+    }
+}
+
+fn live_prompt(state: &mut State, purpose: &super::state::PromptPurpose, text: &str) {
+    use super::state::PromptPurpose as P;
+    match purpose {
+        P::IngredientSearch => ingredients::set_filter(state, text),
+        P::BatchSearch => {
+            state.batches.query.text = text.to_string();
+        }
+        _ => {}
+    }
+}
+
+fn cancel_prompt(state: &mut State, purpose: &super::state::PromptPurpose) {
+    use super::state::PromptPurpose as P;
+    if matches!(purpose, P::IngredientSearch) {
+        ingredients::set_filter(state, "");
+    }
+    if matches!(purpose, P::BatchSearch) {
+        state.batches.query.text.clear();
+    }
+}
+
+fn accept_prompt(state: &mut State, prompt: super::state::Prompt) -> Vec<Effect> {
+    use super::state::PromptPurpose as P;
+    let text = prompt.input.value().to_string();
+    let outcome = match &prompt.purpose {
+        P::NewLineAmount(_)
+        | P::LineAmount(_)
+        | P::ScaleTotal
+        | P::ServingTarget
+        | P::Rename
+        | P::SaveAsName
+        | P::OpenFilePath => recipe::accept(state, &prompt.purpose, &text),
+        P::IngredientSearch => Ok(Vec::new()),
+        P::BatchSearch | P::BatchSince | P::BatchNote(_) | P::BatchAmend(_) => {
+            batches::accept(state, &prompt.purpose, &text)
+        }
+        P::Setting(field) => settings::accept(state, *field, &text),
+    };
+    match outcome {
+        Ok(effects) => effects,
+        Err(reason) => {
+            state.overlay = Some(Overlay::Prompt(super::state::Prompt {
+                error: Some(reason),
+                ..prompt
+            }));
+            Vec::new()
+        }
+    }
+}
+
+fn check_form(state: &State, form: &mut super::state::Form) {
+    use super::state::FormPurpose as F;
+    match form.purpose {
+        F::Ingredient(_) | F::Solute(_) => ingredients::check_form(state, form),
+        F::Batch | F::Measurement(_) => batches::check_form(state, form),
+    }
+}
+
+fn submit_form(state: &mut State, mut form: super::state::Form) -> Vec<Effect> {
+    use super::state::FormPurpose as F;
+    check_form(state, &mut form);
+    let outcome = match form.purpose {
+        F::Ingredient(_) | F::Solute(_) => ingredients::submit(state, &form),
+        F::Batch | F::Measurement(_) => batches::submit(state, &form),
+    };
+    match outcome {
+        Ok(effects) => effects,
+        Err(reason) => {
+            form.summary = Some(reason);
+            state.overlay = Some(Overlay::Form(form));
+            Vec::new()
+        }
+    }
+}

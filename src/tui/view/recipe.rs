@@ -1,0 +1,322 @@
+//! The recipe screen: the lines with a cursor, the key figures, the warnings
+//! and cautions, and the chart of frozen water against temperature.
+
+use ratatui::Frame;
+use ratatui::layout::{Constraint, Layout, Rect};
+use ratatui::style::Style;
+use ratatui::symbols::Marker;
+use ratatui::text::{Line, Span};
+use ratatui::widgets::{
+    Axis, Block, Cell, Chart, Dataset, GraphType, Paragraph, Row, Table, TableState, Wrap,
+};
+
+use crate::analysis::{Analysis, Severity};
+
+use super::super::state::State;
+use super::super::units::{fmt_amount, fmt_mass, fmt_temp, fmt_temp_opt, temp_symbol, temp_value};
+use super::fit;
+use super::theme::{ADVICE_MARK, CAUTION_MARK, CURSOR_MARK, NOTE_MARK, PROBLEM_MARK, Theme};
+
+/// Coldest temperature the chart shows (°C).
+pub const CHART_MIN_C: f64 = -30.0;
+
+/// Draws the recipe screen.
+pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
+    let top_rows = 12.min(area.height);
+    let [top, bottom] =
+        Layout::vertical([Constraint::Length(top_rows), Constraint::Min(0)]).areas(area);
+    let side = if area.width >= 110 { 44 } else { 36 };
+    let [lines, figures] =
+        Layout::horizontal([Constraint::Min(20), Constraint::Length(side)]).areas(top);
+    let [chart, notes] =
+        Layout::horizontal([Constraint::Min(20), Constraint::Length(side)]).areas(bottom);
+    render_lines(state, theme, frame, lines);
+    render_figures(state, theme, frame, figures);
+    render_chart(state, theme, frame, chart);
+    render_warnings(state, theme, frame, notes);
+}
+
+fn render_lines(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
+    let r = &state.recipe;
+    let unit = state.settings.mass_unit;
+    let analysis = r.analysis.as_ref().ok();
+    let rows: Vec<Row> = r
+        .recipe
+        .lines
+        .iter()
+        .enumerate()
+        .map(|(k, line)| {
+            let name = super::super::screens::recipe::display_name(state, &line.ingredient);
+            let share = analysis
+                .and_then(|a| a.line_mass_g.get(k).map(|g| 100.0 * g / a.mass_g))
+                .map_or("-".to_string(), |p| format!("{p:.1}"));
+            let mark = if k == r.cursor { CURSOR_MARK } else { "  " };
+            Row::new(vec![
+                Cell::from(format!("{mark}{name}")),
+                Cell::from(Line::from(fmt_amount(line.amount, unit)).right_aligned()),
+                Cell::from(Line::from(share).right_aligned()),
+            ])
+        })
+        .collect();
+    let total = analysis.map_or("-".to_string(), |a| fmt_mass(a.mass_g, unit));
+    let dirty = if r.is_dirty() { " *" } else { "" };
+    let title = format!(" {}{dirty} ", r.recipe.name);
+    let table = Table::new(
+        rows,
+        [
+            Constraint::Min(12),
+            Constraint::Length(12),
+            Constraint::Length(7),
+        ],
+    )
+    .header(Row::new(vec!["  Ingredient", "      Amount", "% mix"]).style(theme.title()))
+    .row_highlight_style(theme.selected())
+    .block(
+        Block::bordered()
+            .title(Span::styled(title, theme.title()))
+            .title_bottom(format!(" {} lines, total {total} ", r.recipe.lines.len())),
+    );
+    let mut table_state = TableState::default();
+    if !r.recipe.lines.is_empty() {
+        table_state.select(Some(r.cursor));
+    }
+    frame.render_stateful_widget(table, area, &mut table_state);
+    if r.recipe.lines.is_empty() && area.height > 3 && area.width > 4 {
+        let inner = Rect {
+            x: area.x + 2,
+            y: area.y + 2,
+            width: area.width - 4,
+            height: 1,
+        };
+        frame.render_widget(Paragraph::new("No lines yet: press a to add one."), inner);
+    }
+}
+
+fn figure<'a>(theme: Theme, label: &str, value: String, width: u16) -> Line<'a> {
+    let pad = (width as usize).saturating_sub(label.chars().count() + value.chars().count() + 2);
+    Line::from(vec![
+        Span::raw(format!("{label}{}", " ".repeat(pad))),
+        Span::styled(value, theme.value()),
+    ])
+}
+
+fn render_figures(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
+    let block = Block::bordered().title(Span::styled(" Key figures ", theme.title()));
+    let width = area.width;
+    let t = state.settings.temp_unit;
+    let lines = match &state.recipe.analysis {
+        Ok(a) => {
+            let c = &a.composition;
+            let pct = |x: f64| format!("{x:.1} %");
+            vec![
+                figure(
+                    theme,
+                    "Freezing point",
+                    fmt_temp_opt(a.freezing_point_c, t),
+                    width,
+                ),
+                figure(
+                    theme,
+                    &format!("Serve at ({:.0} % frozen)", 100.0 * a.serving_target),
+                    fmt_temp_opt(a.serving_temp_c, t),
+                    width,
+                ),
+                figure(
+                    theme,
+                    &format!("Frozen, cabinet {}", fmt_temp(a.cabinet.temp_c, t)),
+                    pct(100.0 * a.cabinet.frozen_fraction),
+                    width,
+                ),
+                figure(
+                    theme,
+                    &format!("Frozen, freezer {}", fmt_temp(a.freezer.temp_c, t)),
+                    pct(100.0 * a.freezer.frozen_fraction),
+                    width,
+                ),
+                figure(
+                    theme,
+                    "Sweetness (sucrose = 100)",
+                    format!("{:.1}", a.sweetness),
+                    width,
+                ),
+                figure(theme, "Total solids", pct(c.total_solids), width),
+                figure(theme, "Fat", pct(c.fat), width),
+                figure(theme, "MSNF", pct(c.msnf), width),
+                figure(theme, "Sugars", pct(c.sugars), width),
+                figure(theme, "ABV", format!("{:.1} % vol", a.abv_pct), width),
+            ]
+        }
+        Err(reason) => vec![Line::from(reason.clone())],
+    };
+    frame.render_widget(
+        Paragraph::new(lines).wrap(Wrap { trim: true }).block(block),
+        area,
+    );
+}
+
+/// The warnings and cautions as (mark, style, text), most serious first.
+pub fn notices(state: &State, theme: Theme) -> Vec<(&'static str, Style, String)> {
+    match &state.recipe.analysis {
+        Ok(a) => {
+            let mut out: Vec<(&'static str, Style, String)> = a
+                .warnings
+                .iter()
+                .map(|w| match w.severity {
+                    Severity::Problem => (PROBLEM_MARK, theme.problem(), w.message.clone()),
+                    Severity::Advice => (ADVICE_MARK, theme.advice(), w.message.clone()),
+                    Severity::Note => (NOTE_MARK, theme.dim(), w.message.clone()),
+                })
+                .collect();
+            out.extend(
+                a.cautions
+                    .iter()
+                    .map(|c| (CAUTION_MARK, theme.advice(), c.clone())),
+            );
+            out
+        }
+        Err(reason) if state.recipe.recipe.lines.is_empty() => {
+            vec![(NOTE_MARK, theme.dim(), reason.clone())]
+        }
+        Err(reason) => vec![(PROBLEM_MARK, theme.problem(), reason.clone())],
+    }
+}
+
+fn render_warnings(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
+    let items = notices(state, theme);
+    let block = Block::bordered()
+        .title(Span::styled(" Warnings and cautions ", theme.title()))
+        .title_bottom(" w: read all ");
+    let inner = block.inner(area);
+    frame.render_widget(block, area);
+    let width = inner.width.saturating_sub(3).max(1) as usize;
+    let wrapped_rows: usize = items
+        .iter()
+        .map(|(_, _, text)| text.chars().count().div_ceil(width).max(1))
+        .sum();
+    let lines: Vec<Line> = if wrapped_rows <= inner.height as usize {
+        items
+            .into_iter()
+            .map(|(mark, style, text)| {
+                Line::from(vec![Span::styled(mark, style), Span::styled(text, style)])
+            })
+            .collect()
+    } else {
+        let room = inner.height as usize;
+        let shown = if items.len() > room {
+            room.saturating_sub(1)
+        } else {
+            items.len()
+        };
+        let mut lines: Vec<Line> = items
+            .iter()
+            .take(shown)
+            .map(|(mark, style, text)| {
+                Line::from(vec![
+                    Span::styled(*mark, *style),
+                    Span::styled(fit(text, width), *style),
+                ])
+            })
+            .collect();
+        if items.len() > shown {
+            lines.push(Line::from(format!(
+                "+{} more: press w",
+                items.len() - shown
+            )));
+        }
+        lines
+    };
+    let wrap = wrapped_rows <= inner.height as usize;
+    let paragraph = Paragraph::new(lines);
+    let paragraph = if wrap {
+        paragraph.wrap(Wrap { trim: true })
+    } else {
+        paragraph
+    };
+    frame.render_widget(paragraph, inner);
+}
+
+/// The marks on the chart: (label, temperature °C, marker, marker symbol).
+fn marks(a: &Analysis) -> Vec<(&'static str, f64, Marker, &'static str)> {
+    let mut out = Vec::new();
+    if let Some(t) = a.serving_temp_c {
+        out.push(("serve", t, Marker::Dot, "•"));
+    }
+    out.push(("cabinet", a.cabinet.temp_c, Marker::Bar, "▄"));
+    out.push(("freezer", a.freezer.temp_c, Marker::Block, "█"));
+    out
+}
+
+fn render_chart(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
+    let t = state.settings.temp_unit;
+    let Ok(a) = &state.recipe.analysis else {
+        frame.render_widget(
+            Block::bordered().title(Span::styled(" Water frozen ", theme.title())),
+            area,
+        );
+        return;
+    };
+    let curve: Vec<(f64, f64)> = a
+        .ice_curve
+        .iter()
+        .filter(|p| p.temp_c >= CHART_MIN_C)
+        .map(|p| (temp_value(p.temp_c, t), 100.0 * p.frozen_fraction))
+        .collect();
+    let marks = marks(a);
+    let mark_lines: Vec<[(f64, f64); 2]> = marks
+        .iter()
+        .map(|(_, temp_c, _, _)| {
+            let x = temp_value(temp_c.max(CHART_MIN_C), t);
+            [(x, 0.0), (x, 100.0)]
+        })
+        .collect();
+    let mut datasets = vec![
+        Dataset::default()
+            .name("frozen")
+            .marker(Marker::Braille)
+            .graph_type(GraphType::Line)
+            .style(theme.curve())
+            .data(&curve),
+    ];
+    for (k, ((label, _, marker, _), points)) in marks.iter().zip(&mark_lines).enumerate() {
+        datasets.push(
+            Dataset::default()
+                .name(*label)
+                .marker(*marker)
+                .graph_type(GraphType::Line)
+                .style(theme.mark(k))
+                .data(points),
+        );
+    }
+    let wide = area.width >= 70;
+    let legend: String = marks
+        .iter()
+        .map(|(label, temp_c, _, symbol)| {
+            if wide {
+                format!("{symbol} {label} {}", fmt_temp(*temp_c, t))
+            } else {
+                format!("{symbol}{label} {:.1}", temp_value(*temp_c, t))
+            }
+        })
+        .collect::<Vec<_>>()
+        .join(if wide { "  " } else { " " });
+    let (lo, hi) = (temp_value(CHART_MIN_C, t), temp_value(0.0, t));
+    let sym = temp_symbol(t);
+    let chart = Chart::new(datasets)
+        .block(
+            Block::bordered()
+                .title(Span::styled(" Water frozen, % ", theme.title()))
+                .title_bottom(format!(" {legend} ")),
+        )
+        .legend_position(None)
+        .x_axis(Axis::default().bounds([lo, hi]).labels([
+            format!("{lo:.0}{sym}"),
+            format!("{:.0}", (lo + hi) / 2.0),
+            format!("{hi:.0}{sym}"),
+        ]))
+        .y_axis(
+            Axis::default()
+                .bounds([0.0, 100.0])
+                .labels(["0", "50", "100"]),
+        );
+    frame.render_widget(chart, area);
+}
