@@ -14,9 +14,14 @@
 //! `model`, `thermo`, `catalog` and `analysis` are pure: no files, no clock, no
 //! terminal, no SQL.
 #![forbid(unsafe_code)]
+// `!(x > 0.0)` is used on purpose: it is also true for NaN, which user input can hold.
+#![allow(clippy::neg_cmp_op_on_partial_ord)]
 
 pub mod analysis;
-pub mod cli;
 pub mod catalog;
+pub mod cli;
 pub mod model;
+pub mod recipe_file;
+pub mod report;
+pub mod samples;
 pub mod thermo;
