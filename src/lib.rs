@@ -15,10 +15,15 @@
 //! `model`, `thermo`, `catalog` and `analysis` are pure: no files, no clock, no
 //! terminal, no SQL.
 #![forbid(unsafe_code)]
+// `!(x > 0.0)` is used on purpose: it is also true for NaN, which user input can hold.
+#![allow(clippy::neg_cmp_op_on_partial_ord)]
 
 pub mod analysis;
 pub mod catalog;
 pub mod cli;
 pub mod model;
+pub mod recipe_file;
+pub mod report;
+pub mod samples;
 pub mod thermo;
 pub mod tui;

@@ -83,9 +83,7 @@ impl<'c> Mix<'c> {
                         id: id.clone(),
                     });
                 };
-                if dairy && matches!(entry.solute.kind, SoluteKind::MilkMinerals)
-                    || dairy && id == "lactose"
-                {
+                if dairy && (entry.solute.kind == SoluteKind::MilkMinerals || id == "lactose") {
                     mix.msnf_g += part(*pct);
                 }
                 mix.solutes.entry(id.clone()).or_insert((entry, 0.0)).1 += part(*pct);

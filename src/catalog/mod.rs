@@ -290,14 +290,14 @@ pub fn validate_solute(s: &Solute) -> Result<(), CatalogError> {
             });
         }
     }
-    if let crate::thermo::binary::WaterModel::Ideal { norrish_k } = s.model {
-        if !(norrish_k >= 0.0 && norrish_k.is_finite()) {
-            return Err(CatalogError::BadPart {
-                id: s.id.clone(),
-                field: "norrish_k".into(),
-                value: norrish_k,
-            });
-        }
+    if let crate::thermo::binary::WaterModel::Ideal { norrish_k } = s.model
+        && !(norrish_k >= 0.0 && norrish_k.is_finite())
+    {
+        return Err(CatalogError::BadPart {
+            id: s.id.clone(),
+            field: "norrish_k".into(),
+            value: norrish_k,
+        });
     }
     Ok(())
 }

@@ -1,21 +1,120 @@
 //! `gelu report FILE...`: the analysis of recipe files as text or JSON lines.
+//! A bad file is reported on stderr with its line and column; the others still
+//! report, and the exit code is 1.
 
+use std::io::{BufWriter, Write};
+use std::path::{Path, PathBuf};
 use std::process::ExitCode;
+
+use crate::analysis::{Options, analyze};
+use crate::catalog::Catalog;
+use crate::model::Recipe;
+use crate::recipe_file::{parse_recipe, read_recipe};
+use crate::report::json::analysis_json;
+use crate::report::text::report_text;
+use crate::report::{TempUnit, parse_temp_c};
+use crate::samples::SAMPLE_RECIPES;
 
 /// Arguments of `gelu report`.
 #[derive(Debug, clap::Args)]
 pub struct ReportArgs {
     /// Recipe files (TOML).
     #[arg(required = true, value_name = "FILE")]
-    pub files: Vec<std::path::PathBuf>,
+    pub files: Vec<PathBuf>,
+    /// One compact JSON object per recipe per line (temperatures in °C).
+    #[arg(long)]
+    pub json: bool,
+    /// Also report the frozen share at TEMP (°C, or with a C/F suffix like 0F); repeatable.
+    #[arg(long = "at", value_name = "TEMP", value_parser = parse_temp_c, allow_hyphen_values = true)]
+    pub at: Vec<f64>,
+    /// Share of water frozen at serving (0..1), overriding the recipes' own.
+    #[arg(long, value_name = "SHARE", value_parser = parse_share)]
+    pub serving_target: Option<f64>,
+    /// Show temperatures in °F in the text report.
+    #[arg(long)]
+    pub fahrenheit: bool,
+}
+
+fn parse_share(text: &str) -> Result<f64, String> {
+    match text.trim().parse::<f64>() {
+        Ok(v) if v > 0.0 && v < 1.0 => Ok(v),
+        _ => Err(format!(
+            "`{text}` is not a share: give a number between 0 and 1, like 0.70"
+        )),
+    }
+}
+
+fn emit(
+    out: &mut impl Write,
+    recipe: &Recipe,
+    options: &Options,
+    json: bool,
+    unit: TempUnit,
+) -> Result<(), String> {
+    let a = analyze(recipe, Catalog::builtin(), options).map_err(|e| e.to_string())?;
+    if json {
+        serde_json::to_writer(&mut *out, &analysis_json(&a))
+            .map_err(|e| e.to_string())
+            .and_then(|_| writeln!(out).map_err(|e| e.to_string()))
+    } else {
+        writeln!(out, "{}", report_text(&a, unit)).map_err(|e| e.to_string())
+    }
 }
 
 /// Runs `gelu report`.
-pub fn run(_args: &ReportArgs) -> anyhow::Result<ExitCode> {
-    anyhow::bail!("report is being written")
+pub fn run(args: &ReportArgs) -> anyhow::Result<ExitCode> {
+    let options = Options {
+        serving_target: args.serving_target,
+        at_temps_c: args.at.clone(),
+        ..Options::default()
+    };
+    let unit = if args.fahrenheit {
+        TempUnit::Fahrenheit
+    } else {
+        TempUnit::Celsius
+    };
+    let stdout = std::io::stdout();
+    let mut out = BufWriter::new(stdout.lock());
+    let mut failed = 0usize;
+    for path in &args.files {
+        let result = read_recipe(path)
+            .map_err(|e| e.to_string())
+            .and_then(|(recipe, _)| {
+                emit(&mut out, &recipe, &options, args.json, unit)
+                    .map_err(|e| format!("{}: {e}", path.display()))
+            });
+        if let Err(message) = result {
+            out.flush()?;
+            eprintln!("gelu: {message}");
+            failed += 1;
+        }
+    }
+    out.flush()?;
+    if failed > 0 {
+        eprintln!(
+            "gelu: {failed} of {} recipe files could not be reported",
+            args.files.len()
+        );
+        return Ok(ExitCode::from(1));
+    }
+    Ok(ExitCode::SUCCESS)
 }
 
-/// Prints the analysis of the built-in sample recipes.
+/// Prints the text analysis of the built-in sample recipes.
 pub fn run_samples() -> anyhow::Result<ExitCode> {
-    anyhow::bail!("report is being written")
+    let stdout = std::io::stdout();
+    let mut out = BufWriter::new(stdout.lock());
+    for (name, text) in SAMPLE_RECIPES {
+        let recipe = parse_recipe(Path::new(name), text)?;
+        emit(
+            &mut out,
+            &recipe,
+            &Options::default(),
+            false,
+            TempUnit::Celsius,
+        )
+        .map_err(anyhow::Error::msg)?;
+    }
+    out.flush()?;
+    Ok(ExitCode::SUCCESS)
 }

@@ -7,6 +7,7 @@
 /// Solves min ‖A x − y‖² for `x`, with `a` given row by row (every row the same
 /// length). Returns `None` when the columns are linearly dependent or the input
 /// is empty or ragged.
+#[allow(clippy::needless_range_loop)] // Householder QR reads best with explicit indices.
 pub fn least_squares(a: &[Vec<f64>], y: &[f64]) -> Option<Vec<f64>> {
     let rows = a.len();
     let cols = a.first()?.len();
@@ -59,29 +60,6 @@ pub fn least_squares(a: &[Vec<f64>], y: &[f64]) -> Option<Vec<f64>> {
         x[k] = (b[k] - s) / m[k][k];
     }
     Some(x.iter().zip(&scale).map(|(v, s)| v / s).collect())
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn recovers_an_exact_quadratic() {
-        // y = 2 + 3x − 0.5x², sampled without noise: the fit must return the coefficients.
-        let xs = [0.0, 1.0, 2.0, 3.0, 4.0, 7.5];
-        let a: Vec<Vec<f64>> = xs.iter().map(|x| vec![1.0, *x, x * x]).collect();
-        let y: Vec<f64> = xs.iter().map(|x| 2.0 + 3.0 * x - 0.5 * x * x).collect();
-        let c = least_squares(&a, &y).expect("well posed");
-        assert!(
-            (c[0] - 2.0).abs() < 1e-10 && (c[1] - 3.0).abs() < 1e-10 && (c[2] + 0.5).abs() < 1e-10
-        );
-    }
-
-    #[test]
-    fn refuses_dependent_columns() {
-        let a = vec![vec![1.0, 2.0], vec![2.0, 4.0], vec![3.0, 6.0]];
-        assert!(least_squares(&a, &[1.0, 2.0, 3.0]).is_none());
-    }
 }
 
 /// Fits c_2..c_(degree+1) of ln a_w = ln x_w + Σ c_k x_s^k (a Margules-type
@@ -144,5 +122,28 @@ pub fn tabulate_freezing_points(points: &[(f64, f64)]) -> super::binary::WaterMo
         molality,
         ln_aw,
         slopes,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn recovers_an_exact_quadratic() {
+        // y = 2 + 3x − 0.5x², sampled without noise: the fit must return the coefficients.
+        let xs = [0.0, 1.0, 2.0, 3.0, 4.0, 7.5];
+        let a: Vec<Vec<f64>> = xs.iter().map(|x| vec![1.0, *x, x * x]).collect();
+        let y: Vec<f64> = xs.iter().map(|x| 2.0 + 3.0 * x - 0.5 * x * x).collect();
+        let c = least_squares(&a, &y).expect("well posed");
+        assert!(
+            (c[0] - 2.0).abs() < 1e-10 && (c[1] - 3.0).abs() < 1e-10 && (c[2] + 0.5).abs() < 1e-10
+        );
+    }
+
+    #[test]
+    fn refuses_dependent_columns() {
+        let a = vec![vec![1.0, 2.0], vec![2.0, 4.0], vec![3.0, 6.0]];
+        assert!(least_squares(&a, &[1.0, 2.0, 3.0]).is_none());
     }
 }

@@ -22,18 +22,26 @@ pub fn ln_p_liquid_pa(temp_k: f64) -> f64 {
             * (53.878 - 1331.22 / temp_k - 9.44523 * ln_t + 0.014025 * temp_k)
 }
 
-/// Natural log of the activity of ice relative to supercooled water at `temp_c` (°C).
-///
-/// Zero at the melting point of pure ice, negative below it.
-/// Murphy & Koop give the formulas for 123 K < T < 332 K; gelu uses them from 0 to -40 °C.
-pub fn ln_ice_activity(temp_c: f64) -> f64 {
+/// Natural log of p_ice / p_liquid at `temp_c` (°C), straight from Murphy & Koop's
+/// formulas (valid 123 K < T < 332 K). The two curves meet at the triple point,
+/// 0.01 °C, so this is -9.7e-5 rather than 0 at 0 °C.
+pub fn ln_vapour_pressure_ratio(temp_c: f64) -> f64 {
     let temp_k = temp_c + KELVIN_OFFSET;
     ln_p_ice_pa(temp_k) - ln_p_liquid_pa(temp_k)
 }
 
-/// Activity of ice relative to supercooled water at `temp_c` (°C), 0..1.
+/// p_ice / p_liquid at `temp_c` (°C), the published quantity (0..1 below 0 °C).
 pub fn ice_activity(temp_c: f64) -> f64 {
-    ln_ice_activity(temp_c).exp()
+    ln_vapour_pressure_ratio(temp_c).exp()
+}
+
+/// Natural log of the activity of ice relative to supercooled water at
+/// `temp_c` (°C) for a mix at atmospheric pressure: the vapour-pressure ratio
+/// referred to the normal melting point, so pure water freezes at exactly 0 °C.
+/// (The 0.01 K between the triple point and the normal melting point is the
+/// effect of pressure and dissolved air; shifting ln a by a constant removes it.)
+pub fn ln_ice_activity(temp_c: f64) -> f64 {
+    ln_vapour_pressure_ratio(temp_c) - ln_vapour_pressure_ratio(0.0)
 }
 
 /// Derivative d ln a_ice / dT (1/K) at `temp_c` (°C), by a central difference.
@@ -42,7 +50,7 @@ pub fn d_ln_ice_activity_dt(temp_c: f64) -> f64 {
     (ln_ice_activity(temp_c + h) - ln_ice_activity(temp_c - h)) / (2.0 * h)
 }
 
-/// The temperature (°C) at which ice has activity `ln_aw` (natural log), i.e. the
+/// The temperature (°C) at which [`ln_ice_activity`] equals `ln_aw`, i.e. the
 /// freezing point of a solution of that water activity. Newton iterations; valid
 /// for water activities from 1 down to about 0.5 (-70 °C).
 pub fn temp_c_for_ln_activity(ln_aw: f64) -> f64 {

@@ -1,0 +1,122 @@
+//! The plain-text report, for people: key figures first, then composition,
+//! warnings, the frozen-share chart, and the cautions.
+
+use std::fmt::Write as _;
+
+use crate::analysis::{Analysis, Severity};
+
+use super::TempUnit;
+use super::chart::frozen_share_chart;
+
+fn temp_or(unit: TempUnit, t: Option<f64>, otherwise: &str) -> String {
+    t.map_or_else(|| otherwise.to_string(), |t| unit.format(t))
+}
+
+/// The whole report for one recipe.
+pub fn report_text(a: &Analysis, unit: TempUnit) -> String {
+    let mut o = String::new();
+    let c = &a.composition;
+    let _ = writeln!(
+        o,
+        "{} ({}), {:.0} g, about {:.0} mL",
+        a.name,
+        a.style.as_str(),
+        a.mass_g,
+        a.volume_ml
+    );
+    let _ = writeln!(o, "{}", "=".repeat(a.name.chars().count().clamp(10, 72)));
+    let _ = writeln!(
+        o,
+        "Freezing point        {}",
+        temp_or(unit, a.freezing_point_c, "none (no water, or below -60 °C)")
+    );
+    let _ = writeln!(
+        o,
+        "  dilute-law estimate {}",
+        temp_or(unit, a.dilute_law_freezing_point_c, "-")
+    );
+    let _ = writeln!(
+        o,
+        "Serving temperature   {}  ({:.0} % of the water frozen)",
+        temp_or(unit, a.serving_temp_c, "not reached above -60 °C"),
+        100.0 * a.serving_target
+    );
+    for (label, p) in [("Cabinet", &a.cabinet), ("Freezer", &a.freezer)] {
+        let _ = writeln!(
+            o,
+            "{label} {:<14}{:.0} % of the water frozen",
+            unit.format(p.temp_c),
+            100.0 * p.frozen_fraction
+        );
+    }
+    for p in &a.at {
+        let _ = writeln!(
+            o,
+            "At {:<19}{:.0} % of the water frozen",
+            unit.format(p.temp_c),
+            100.0 * p.frozen_fraction
+        );
+    }
+    let _ = writeln!(
+        o,
+        "Sweetness             {:.1} (g sucrose per 100 g that would taste as sweet)",
+        a.sweetness
+    );
+    if a.composition.ethanol > 0.0 {
+        let _ = writeln!(
+            o,
+            "Alcohol               {:.1} % vol at 20 °C ({:.2} % by mass)",
+            a.abv_pct, c.ethanol
+        );
+    }
+    if a.style.is_drink() {
+        let _ = writeln!(o, "Sugars                {:.0} g/L", a.sugar_g_per_l);
+    }
+    let _ = writeln!(o, "\nComposition (mass %)");
+    let rows = [
+        ("water", c.water),
+        ("fat", c.fat),
+        ("MSNF", c.msnf),
+        ("protein", c.protein),
+        ("lactose", c.lactose),
+        ("sugars", c.sugars),
+        ("sweeteners, lactose aside", a.sweeteners_pct),
+        ("ethanol", c.ethanol),
+        ("other solids", c.other_solids),
+        ("total solids", c.total_solids),
+    ];
+    for (label, v) in rows {
+        let _ = writeln!(o, "  {label:<28}{v:>6.2}");
+    }
+    let _ = writeln!(o, "  dissolved:");
+    for (id, v) in &a.solutes_pct {
+        let _ = writeln!(o, "    {id:<26}{v:>6.2}");
+    }
+    if !a.warnings.is_empty() {
+        let _ = writeln!(o, "\nWarnings");
+        for w in &a.warnings {
+            let mark = match w.severity {
+                Severity::Problem => "!!",
+                Severity::Advice => "! ",
+                Severity::Note => "i ",
+            };
+            let _ = writeln!(o, "  {mark} [{}] {}", w.code, w.message);
+        }
+    }
+    let _ = writeln!(o, "\nShare of the water frozen");
+    for line in frozen_share_chart(a, unit) {
+        let _ = writeln!(o, "  {line}");
+    }
+    let _ = writeln!(
+        o,
+        "  Fat, protein, fibre, cocoa solids and stabilisers hold no water in this model."
+    );
+    if !a.allergens.is_empty() {
+        let _ = writeln!(o, "\nAllergens: {}", a.allergens.join(", "));
+    }
+    let _ = writeln!(o, "\nCautions");
+    for caution in &a.cautions {
+        let _ = writeln!(o, "  - {caution}");
+    }
+    o
+}
