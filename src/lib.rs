@@ -24,4 +24,5 @@ pub mod model;
 pub mod recipe_file;
 pub mod report;
 pub mod samples;
+pub mod store;
 pub mod thermo;
