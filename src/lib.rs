@@ -25,5 +25,6 @@ pub mod model;
 pub mod recipe_file;
 pub mod report;
 pub mod samples;
+pub mod store;
 pub mod thermo;
 pub mod tui;

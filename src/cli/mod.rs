@@ -2,6 +2,8 @@
 //! subcommands, which resolve them into typed options for the library.
 //! Only this module and `main` decide exit codes.
 
+mod batch;
+mod db;
 mod report;
 
 use std::path::PathBuf;
@@ -26,6 +28,10 @@ pub struct Cli {
 pub enum Command {
     /// Analyse recipe files: freezing point, frozen share, composition, warnings.
     Report(report::ReportArgs),
+    /// The batch log: record, list, show, measure, finalize, amend, export, import.
+    Batch(batch::BatchArgs),
+    /// The batch-log database: path, check, backup.
+    Db(db::DbArgs),
     /// Open a recipe file in the workspace.
     Edit {
         /// The recipe file (TOML).
@@ -42,7 +48,11 @@ pub fn run() -> ExitCode {
     let cli = Cli::parse();
     let outcome = match cli.command {
         Some(Command::Report(args)) => report::run(&args),
+        Some(Command::Batch(args)) => batch::run(&args, cli.db.as_deref()),
+        Some(Command::Db(args)) => db::run(&args, cli.db.as_deref()),
         Some(Command::Edit { file }) => workspace(cli.db, Some(file)),
+        // Without a terminal (a pipe, a script) print the sample report instead.
+        None if !std::io::IsTerminal::is_terminal(&std::io::stdout()) => report::run_samples(),
         None => workspace(cli.db, None),
     };
     match outcome {

@@ -1,0 +1,204 @@
+-- gelu batch log: the SQLite schema, embedded in the binary at build time.
+--
+-- The file is a list of forward-only migrations. Each section that starts with a line
+-- "-- migration N" moves a database from schema version N-1 to N; the version is kept in
+-- PRAGMA user_version. A released section is never edited: a change of schema is a new
+-- section at the end. Every section runs inside one transaction with the version bump.
+--
+-- Records are legal records: triggers make recipe versions, measurements, notes,
+-- amendments and analysis snapshots append-only, forbid deleting a batch, and forbid any
+-- UPDATE of a batch or its lines once the batch is final. A final record is corrected by
+-- a new row in `amendments` that references it.
+--
+-- Times are RFC 3339 UTC text with milliseconds ("2026-12-01T23:10:00.000Z"), so text
+-- order is time order. Masses are grams (REAL).
+
+-- migration 1
+PRAGMA application_id = 1734700149; -- 'gelu' in ASCII: marks the file as a gelu batch log
+
+CREATE TABLE recipes (
+    id          INTEGER PRIMARY KEY,
+    name        TEXT NOT NULL UNIQUE,
+    created_at  TEXT NOT NULL
+) STRICT;
+
+CREATE TABLE recipe_versions (
+    id           INTEGER PRIMARY KEY,
+    recipe_id    INTEGER NOT NULL REFERENCES recipes(id),
+    version      INTEGER NOT NULL CHECK (version >= 1),
+    text         TEXT NOT NULL,
+    content_hash TEXT NOT NULL,
+    created_at   TEXT NOT NULL,
+    UNIQUE (recipe_id, version)
+) STRICT;
+
+CREATE TRIGGER recipe_versions_immutable_update BEFORE UPDATE ON recipe_versions
+BEGIN
+    SELECT RAISE(ABORT, 'a recipe version is immutable; save a new version instead');
+END;
+CREATE TRIGGER recipe_versions_immutable_delete BEFORE DELETE ON recipe_versions
+BEGIN
+    SELECT RAISE(ABORT, 'a recipe version is never deleted');
+END;
+
+-- The user's own solutes and ingredients, kept as the TOML text of their definition.
+CREATE TABLE custom_solutes (
+    id          TEXT PRIMARY KEY,
+    name        TEXT NOT NULL,
+    definition  TEXT NOT NULL,
+    updated_at  TEXT NOT NULL
+) STRICT;
+
+CREATE TABLE custom_ingredients (
+    id          TEXT PRIMARY KEY,
+    name        TEXT NOT NULL,
+    definition  TEXT NOT NULL,
+    updated_at  TEXT NOT NULL
+) STRICT;
+
+CREATE TABLE settings (
+    key         TEXT PRIMARY KEY,
+    value       TEXT NOT NULL
+) STRICT;
+
+CREATE TABLE batches (
+    id                INTEGER PRIMARY KEY,
+    code              TEXT NOT NULL UNIQUE,
+    recipe_id         INTEGER NOT NULL REFERENCES recipes(id),
+    recipe_version_id INTEGER NOT NULL REFERENCES recipe_versions(id),
+    made_at           TEXT NOT NULL,
+    size_g            REAL NOT NULL CHECK (size_g > 0),
+    operator          TEXT NOT NULL,
+    status            TEXT NOT NULL CHECK (status IN ('draft', 'final')),
+    finalized_at      TEXT,
+    finalized_by      TEXT,
+    created_at        TEXT NOT NULL
+) STRICT;
+
+CREATE INDEX batches_by_time ON batches (made_at DESC, id DESC);
+CREATE INDEX batches_by_recipe_time ON batches (recipe_id, made_at DESC, id DESC);
+
+CREATE TRIGGER batches_final_is_final BEFORE UPDATE ON batches
+WHEN OLD.status = 'final'
+BEGIN
+    SELECT RAISE(ABORT, 'a final batch record is never changed; add an amendment instead');
+END;
+CREATE TRIGGER batches_never_deleted BEFORE DELETE ON batches
+BEGIN
+    SELECT RAISE(ABORT, 'a batch record is never deleted');
+END;
+CREATE TRIGGER batches_version_matches_recipe BEFORE INSERT ON batches
+WHEN NEW.recipe_id IS NOT (SELECT recipe_id FROM recipe_versions WHERE id = NEW.recipe_version_id)
+BEGIN
+    SELECT RAISE(ABORT, 'the recipe version does not belong to the batch''s recipe');
+END;
+
+CREATE TABLE batch_lines (
+    id          INTEGER PRIMARY KEY,
+    batch_id    INTEGER NOT NULL REFERENCES batches(id),
+    position    INTEGER NOT NULL,
+    ingredient  TEXT NOT NULL,
+    planned_g   REAL NOT NULL,
+    actual_g    REAL,
+    lot         TEXT NOT NULL DEFAULT '',
+    UNIQUE (batch_id, position)
+) STRICT;
+
+CREATE TRIGGER batch_lines_insert_open BEFORE INSERT ON batch_lines
+WHEN (SELECT status FROM batches WHERE id = NEW.batch_id) = 'final'
+BEGIN
+    SELECT RAISE(ABORT, 'a final batch record is never changed; add an amendment instead');
+END;
+CREATE TRIGGER batch_lines_update_open BEFORE UPDATE ON batch_lines
+WHEN (SELECT status FROM batches WHERE id = OLD.batch_id) = 'final'
+BEGIN
+    SELECT RAISE(ABORT, 'a final batch record is never changed; add an amendment instead');
+END;
+CREATE TRIGGER batch_lines_never_deleted BEFORE DELETE ON batch_lines
+BEGIN
+    SELECT RAISE(ABORT, 'a batch line is never deleted');
+END;
+
+CREATE TABLE measurements (
+    id          INTEGER PRIMARY KEY,
+    batch_id    INTEGER NOT NULL REFERENCES batches(id),
+    kind        TEXT NOT NULL,
+    value       REAL NOT NULL,
+    unit        TEXT NOT NULL,
+    taken_at    TEXT NOT NULL,
+    taken_by    TEXT NOT NULL
+) STRICT;
+CREATE INDEX measurements_by_batch ON measurements (batch_id, id);
+
+CREATE TABLE batch_notes (
+    id          INTEGER PRIMARY KEY,
+    batch_id    INTEGER NOT NULL REFERENCES batches(id),
+    text        TEXT NOT NULL,
+    written_at  TEXT NOT NULL,
+    written_by  TEXT NOT NULL
+) STRICT;
+CREATE INDEX batch_notes_by_batch ON batch_notes (batch_id, id);
+
+-- What the model predicted when the batch was made (the public analysis JSON).
+CREATE TABLE batch_predictions (
+    batch_id    INTEGER PRIMARY KEY REFERENCES batches(id),
+    analysis    TEXT NOT NULL CHECK (json_valid(analysis))
+) STRICT;
+
+-- The amendment trail: each row corrects the batch it references. `changes` is a JSON
+-- array of {field, target, old, new}.
+CREATE TABLE amendments (
+    id          INTEGER PRIMARY KEY,
+    batch_id    INTEGER NOT NULL REFERENCES batches(id),
+    amended_at  TEXT NOT NULL,
+    amended_by  TEXT NOT NULL,
+    reason      TEXT NOT NULL CHECK (reason <> ''),
+    changes     TEXT NOT NULL CHECK (json_valid(changes))
+) STRICT;
+CREATE INDEX amendments_by_batch ON amendments (batch_id, id);
+
+CREATE TRIGGER measurements_append_only_update BEFORE UPDATE ON measurements
+BEGIN SELECT RAISE(ABORT, 'a measurement is never changed; record a new one'); END;
+CREATE TRIGGER measurements_append_only_delete BEFORE DELETE ON measurements
+BEGIN SELECT RAISE(ABORT, 'a measurement is never deleted'); END;
+CREATE TRIGGER batch_notes_append_only_update BEFORE UPDATE ON batch_notes
+BEGIN SELECT RAISE(ABORT, 'a note is never changed; add a new one'); END;
+CREATE TRIGGER batch_notes_append_only_delete BEFORE DELETE ON batch_notes
+BEGIN SELECT RAISE(ABORT, 'a note is never deleted'); END;
+CREATE TRIGGER batch_predictions_append_only_update BEFORE UPDATE ON batch_predictions
+BEGIN SELECT RAISE(ABORT, 'an analysis snapshot is never changed'); END;
+CREATE TRIGGER batch_predictions_append_only_delete BEFORE DELETE ON batch_predictions
+BEGIN SELECT RAISE(ABORT, 'an analysis snapshot is never deleted'); END;
+CREATE TRIGGER amendments_append_only_update BEFORE UPDATE ON amendments
+BEGIN SELECT RAISE(ABORT, 'an amendment is never changed; add a new one'); END;
+CREATE TRIGGER amendments_append_only_delete BEFORE DELETE ON amendments
+BEGIN SELECT RAISE(ABORT, 'an amendment is never deleted'); END;
+
+-- Full-text search over notes, supplier lots and amendment reasons. One row per source
+-- row; `batch_id` says which batch it belongs to. Kept by the triggers below.
+CREATE VIRTUAL TABLE batch_search USING fts5 (
+    body,
+    batch_id UNINDEXED,
+    tokenize = 'unicode61 remove_diacritics 2'
+);
+
+CREATE TRIGGER batch_search_notes AFTER INSERT ON batch_notes
+BEGIN
+    INSERT INTO batch_search (body, batch_id) VALUES (NEW.text, NEW.batch_id);
+END;
+CREATE TRIGGER batch_search_lots AFTER INSERT ON batch_lines
+WHEN NEW.lot <> ''
+BEGIN
+    INSERT INTO batch_search (body, batch_id) VALUES (NEW.lot, NEW.batch_id);
+END;
+CREATE TRIGGER batch_search_lot_changes AFTER UPDATE OF lot ON batch_lines
+WHEN NEW.lot <> ''
+BEGIN
+    INSERT INTO batch_search (body, batch_id) VALUES (NEW.lot, NEW.batch_id);
+END;
+CREATE TRIGGER batch_search_amendments AFTER INSERT ON amendments
+BEGIN
+    INSERT INTO batch_search (body, batch_id)
+    VALUES (NEW.reason || ' ' || coalesce((SELECT group_concat(json_extract(value, '$.new'), ' ')
+                                           FROM json_each(NEW.changes)), ''), NEW.batch_id);
+END;

@@ -1,0 +1,95 @@
+//! `gelu db ...`: where the batch log is, checking it, and backing it up. Also the
+//! one place the command line opens the store (`--db`, `GELU_DB`, or the default).
+
+use std::path::{Path, PathBuf};
+use std::process::ExitCode;
+
+use anyhow::Context;
+
+use crate::store::{Store, StoreError, open};
+
+/// Arguments of `gelu db`.
+#[derive(Debug, clap::Args)]
+pub struct DbArgs {
+    /// What to do.
+    #[command(subcommand)]
+    pub command: DbCommand,
+}
+
+/// The `gelu db` subcommands.
+#[derive(Debug, clap::Subcommand)]
+pub enum DbCommand {
+    /// Print the batch log's file path.
+    Path,
+    /// Run SQLite's integrity and foreign-key checks (exit 1 on a problem).
+    Check,
+    /// Write a consistent copy to PATH (safe while others write).
+    Backup {
+        /// Where to write the copy; must not exist yet.
+        path: PathBuf,
+    },
+}
+
+/// The database file the command line uses.
+pub fn resolve_path(db: Option<&Path>) -> anyhow::Result<PathBuf> {
+    match db {
+        Some(p) => Ok(p.to_path_buf()),
+        None => Ok(open::default_path()?),
+    }
+}
+
+/// Opens the batch log the command line uses (creating and seeding it when new).
+pub fn open_store(db: Option<&Path>) -> anyhow::Result<Store> {
+    match db {
+        Some(p) => Ok(Store::open(p)?),
+        None => Ok(Store::open_default()?),
+    }
+}
+
+/// Runs `gelu db`.
+pub fn run(args: &DbArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
+    match &args.command {
+        DbCommand::Path => {
+            println!("{}", resolve_path(db)?.display());
+            Ok(ExitCode::SUCCESS)
+        }
+        DbCommand::Check => {
+            let path = resolve_path(db)?;
+            if !path.exists() {
+                anyhow::bail!(
+                    "there is no batch log at {}; nothing to check",
+                    path.display()
+                );
+            }
+            let problems = match Store::open(&path) {
+                Ok(store) => store.check()?,
+                Err(e @ (StoreError::Corrupt { .. } | StoreError::NotADatabase { .. })) => {
+                    vec![e.to_string()]
+                }
+                Err(e) => return Err(e.into()),
+            };
+            if problems.is_empty() {
+                println!("{}: ok", path.display());
+                Ok(ExitCode::SUCCESS)
+            } else {
+                for p in &problems {
+                    println!("{}: {p}", path.display());
+                }
+                eprintln!(
+                    "gelu: {} problem(s) found. Do not write to this file; copy it somewhere safe \
+                     and restore from a backup.",
+                    problems.len()
+                );
+                Ok(ExitCode::from(1))
+            }
+        }
+        DbCommand::Backup { path } => {
+            let store = open_store(db)?;
+            store
+                .backup_to(path)
+                .with_context(|| format!("backing up {}", store.path().display()))?;
+            println!("{}", path.display());
+            Ok(ExitCode::SUCCESS)
+        }
+    }
+}

@@ -1,0 +1,130 @@
+//! The batch log: a local SQLite file holding recipes and their immutable
+//! versions, batches with their lines, lots, measurements, notes, analysis snapshots
+//! and the append-only amendment trail, plus settings. This is the only module that
+//! speaks SQL; it hands out the domain types of [`types`].
+//!
+//! - [`open`]: where the file lives, what is refused, connection settings.
+//! - [`migrate`]: the forward-only migrations of `schema.sql`.
+//! - [`tx`]: immediate write transactions with a bounded retry.
+//! - `recipes`, `batches`, `query`: reading and writing records.
+//! - [`jsonl`] and [`csv`]: export and import.
+//! - [`plan`]: a recipe scaled to a batch size, ready for [`Store::new_batch`].
+//!
+//! Every write is one transaction: a crash or a refused request leaves nothing half
+//! written. Final records are never updated in place; triggers in the schema enforce it.
+
+pub mod amend;
+pub mod backup;
+mod batches;
+pub mod csv;
+mod error;
+pub mod jsonl;
+pub mod migrate;
+pub mod open;
+pub mod plan;
+mod query;
+mod recipes;
+mod seed;
+pub mod tx;
+mod types;
+pub mod values;
+
+use std::path::{Path, PathBuf};
+
+use rusqlite::Connection;
+
+pub use amend::Edit;
+pub use error::{Result, StoreError};
+pub use types::*;
+
+/// An open batch log.
+pub struct Store {
+    conn: Connection,
+    path: PathBuf,
+    migrated: migrate::Migrated,
+}
+
+impl std::fmt::Debug for Store {
+    fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
+        f.debug_struct("Store").field("path", &self.path).finish()
+    }
+}
+
+impl Store {
+    /// Opens the batch log at `path`, creating, migrating and (when new) seeding it.
+    pub fn open(path: &Path) -> Result<Store> {
+        let mut conn = open::connect(path)?;
+        let migrated =
+            migrate::migrate(&mut conn, path, &migrate::migrations(), &seed::seed_samples)?;
+        Ok(Store {
+            conn,
+            path: path.to_path_buf(),
+            migrated,
+        })
+    }
+
+    /// Opens the batch log in the platform's data directory, creating the folder.
+    pub fn open_default() -> Result<Store> {
+        let path = open::default_path()?;
+        if let Some(dir) = path.parent() {
+            std::fs::create_dir_all(dir).map_err(|source| StoreError::Io {
+                path: dir.to_path_buf(),
+                source,
+            })?;
+        }
+        Store::open(&path)
+    }
+
+    /// The database file.
+    pub fn path(&self) -> &Path {
+        &self.path
+    }
+
+    /// The schema version the file had before this open, and the backup made, if any.
+    pub fn migration(&self) -> &migrate::Migrated {
+        &self.migrated
+    }
+
+    /// Runs SQLite's integrity and foreign-key checks; returns the problems found.
+    pub fn check(&self) -> Result<Vec<String>> {
+        let mut problems = Vec::new();
+        let mut integrity = self.conn.prepare("PRAGMA integrity_check")?;
+        let rows = integrity.query_map([], |r| r.get::<_, String>(0))?;
+        for row in rows {
+            let line = row?;
+            if line != "ok" {
+                problems.push(format!("integrity: {line}"));
+            }
+        }
+        let mut fk = self.conn.prepare("PRAGMA foreign_key_check")?;
+        let rows = fk.query_map([], |r| {
+            Ok(format!(
+                "foreign key: row {} of {} points to a missing row of {}",
+                r.get::<_, Option<i64>>(1)?.unwrap_or(-1),
+                r.get::<_, String>(0)?,
+                r.get::<_, String>(2)?
+            ))
+        })?;
+        for row in rows {
+            problems.push(row?);
+        }
+        let version = migrate::user_version(&self.conn)?;
+        if version != migrate::latest_version() {
+            problems.push(format!(
+                "schema version is {version}, expected {}",
+                migrate::latest_version()
+            ));
+        }
+        Ok(problems)
+    }
+
+    /// Writes a consistent copy to `dest` (SQLite's online backup; safe while others write).
+    pub fn backup_to(&self, dest: &Path) -> Result<()> {
+        backup::copy_to(&self.conn, dest)
+    }
+
+    /// Runs `work` in one immediate write transaction, retried when busy.
+    fn write<T>(&mut self, work: impl FnMut(&rusqlite::Transaction) -> Result<T>) -> Result<T> {
+        tx::write(&mut self.conn, &self.path, work)
+    }
+}

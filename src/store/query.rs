@@ -1,0 +1,284 @@
+//! Reading batch records: one whole record by code, and the batch list with
+//! filters, full-text search and keyset pagination (no OFFSET, so scrolling far
+//! down a million rows costs the same as the first page).
+
+use rusqlite::types::Value as SqlValue;
+use rusqlite::{Connection, OptionalExtension, Row};
+
+use super::amend;
+use super::error::{Result, StoreError};
+use super::types::{
+    Amendment, Batch, BatchCursor, BatchFilter, BatchLine, BatchSummary, Change, Measurement,
+    MeasurementKind, Note, RecipeVersion, Status,
+};
+use super::{Store, values};
+
+fn time(row: &Row, i: usize) -> rusqlite::Result<chrono::DateTime<chrono::Utc>> {
+    let text: String = row.get(i)?;
+    values::parse_time(&text).map_err(|e| {
+        rusqlite::Error::FromSqlConversionFailure(i, rusqlite::types::Type::Text, Box::new(e))
+    })
+}
+
+fn status(stored: &str, amended: bool) -> Status {
+    match (stored, amended) {
+        ("draft", _) => Status::Draft,
+        (_, true) => Status::Amended,
+        _ => Status::Final,
+    }
+}
+
+/// An FTS5 query matching every word the user typed (each as a prefix), with
+/// FTS syntax characters taken literally.
+fn fts_query(text: &str) -> Option<String> {
+    let terms: Vec<String> = text
+        .split_whitespace()
+        .map(|w| w.replace('"', ""))
+        .filter(|w| !w.is_empty())
+        .map(|w| format!("\"{w}\"*"))
+        .collect();
+    (!terms.is_empty()).then(|| terms.join(" "))
+}
+
+impl Store {
+    /// The whole record of one batch, amendments applied, or `None`.
+    pub fn batch(&self, code: &str) -> Result<Option<Batch>> {
+        Store::read_batch(&self.conn, code)
+    }
+
+    pub(crate) fn read_batch(conn: &Connection, code: &str) -> Result<Option<Batch>> {
+        let head = conn
+            .prepare_cached(
+                "SELECT b.id, b.code, r.name, v.version, v.content_hash, v.text, b.made_at,
+                        b.size_g, b.operator, b.status, b.finalized_at, b.finalized_by, p.analysis
+                 FROM batches b
+                 JOIN recipes r ON r.id = b.recipe_id
+                 JOIN recipe_versions v ON v.id = b.recipe_version_id
+                 LEFT JOIN batch_predictions p ON p.batch_id = b.id
+                 WHERE b.code = ?1",
+            )?
+            .query_row([code], |r| {
+                let finalized_at: Option<String> = r.get(10)?;
+                let prediction: Option<String> = r.get(12)?;
+                Ok((
+                    r.get::<_, i64>(0)?,
+                    Batch {
+                        code: r.get(1)?,
+                        recipe: RecipeVersion {
+                            recipe: r.get(2)?,
+                            version: r.get(3)?,
+                            content_hash: r.get(4)?,
+                            text: r.get(5)?,
+                        },
+                        made_at: time(r, 6)?,
+                        size_g: r.get(7)?,
+                        operator: r.get(8)?,
+                        status: status(&r.get::<_, String>(9)?, false),
+                        finalized_at: finalized_at
+                            .map(|t| values::parse_time(&t))
+                            .transpose()
+                            .map_err(|e| {
+                                rusqlite::Error::FromSqlConversionFailure(
+                                    10,
+                                    rusqlite::types::Type::Text,
+                                    Box::new(e),
+                                )
+                            })?,
+                        finalized_by: r.get(11)?,
+                        lines: Vec::new(),
+                        measurements: Vec::new(),
+                        notes: Vec::new(),
+                        amendments: Vec::new(),
+                        prediction: prediction
+                            .and_then(|p| serde_json::from_str(&p).ok())
+                            .unwrap_or(serde_json::Value::Null),
+                    },
+                ))
+            })
+            .optional()?;
+        let Some((id, mut batch)) = head else {
+            return Ok(None);
+        };
+        batch.lines = conn
+            .prepare_cached(
+                "SELECT ingredient, planned_g, actual_g, lot FROM batch_lines
+                 WHERE batch_id = ?1 ORDER BY position",
+            )?
+            .query_map([id], |r| {
+                Ok(BatchLine {
+                    ingredient: r.get(0)?,
+                    planned_g: r.get(1)?,
+                    actual_g: r.get(2)?,
+                    lot: r.get(3)?,
+                })
+            })?
+            .collect::<rusqlite::Result<_>>()?;
+        let mut measurements = Vec::new();
+        let mut stmt = conn.prepare_cached(
+            "SELECT kind, value, taken_at, taken_by FROM measurements WHERE batch_id = ?1 ORDER BY id",
+        )?;
+        let mut rows = stmt.query([id])?;
+        while let Some(r) = rows.next()? {
+            let kind_text: String = r.get(0)?;
+            let kind = MeasurementKind::parse(&kind_text).ok_or_else(|| {
+                StoreError::Invalid(format!(
+                    "batch {code} holds a measurement of unknown kind `{kind_text}` (made by a newer gelu?)"
+                ))
+            })?;
+            measurements.push(Measurement {
+                kind,
+                value: r.get(1)?,
+                taken_at: time(r, 2)?,
+                by: r.get(3)?,
+            });
+        }
+        batch.measurements = measurements;
+        batch.notes = conn
+            .prepare_cached(
+                "SELECT text, written_at, written_by FROM batch_notes WHERE batch_id = ?1 ORDER BY id",
+            )?
+            .query_map([id], |r| {
+                Ok(Note {
+                    text: r.get(0)?,
+                    written_at: time(r, 1)?,
+                    by: r.get(2)?,
+                })
+            })?
+            .collect::<rusqlite::Result<_>>()?;
+        let mut amendments = Vec::new();
+        let mut stmt = conn.prepare_cached(
+            "SELECT amended_at, amended_by, reason, changes FROM amendments WHERE batch_id = ?1 ORDER BY id",
+        )?;
+        let mut rows = stmt.query([id])?;
+        while let Some(r) = rows.next()? {
+            let changes_text: String = r.get(3)?;
+            let changes: Vec<Change> = serde_json::from_str(&changes_text).map_err(|e| {
+                StoreError::Invalid(format!("an amendment of {code} could not be read: {e}"))
+            })?;
+            amendments.push(Amendment {
+                amended_at: time(r, 0)?,
+                by: r.get(1)?,
+                reason: r.get(2)?,
+                changes,
+            });
+        }
+        for a in &amendments {
+            for c in &a.changes {
+                amend::apply(c, &mut batch.operator, &mut batch.lines)?;
+            }
+        }
+        batch.status = status(
+            if batch.status == Status::Draft {
+                "draft"
+            } else {
+                "final"
+            },
+            !amendments.is_empty(),
+        );
+        batch.amendments = amendments;
+        Ok(Some(batch))
+    }
+
+    /// Batches matching `filter`, newest first; pass the last row's cursor as
+    /// `filter.after` for the next page.
+    pub fn list_batches(&self, filter: &BatchFilter) -> Result<Vec<BatchSummary>> {
+        let mut sql = String::from(
+            "SELECT b.id, b.code, r.name, v.version, b.made_at, b.size_g, b.operator, b.status,
+                    EXISTS (SELECT 1 FROM amendments a WHERE a.batch_id = b.id),
+                    (SELECT json_extract(c.value, '$.new')
+                       FROM amendments a, json_each(a.changes) c
+                      WHERE a.batch_id = b.id AND json_extract(c.value, '$.field') = 'operator'
+                      ORDER BY a.id DESC, c.key DESC LIMIT 1)
+             FROM batches b
+             JOIN recipes r ON r.id = b.recipe_id
+             JOIN recipe_versions v ON v.id = b.recipe_version_id
+             WHERE 1 = 1",
+        );
+        let mut args: Vec<SqlValue> = Vec::new();
+        let mut arg = |sql: &mut String, clause: &str, value: SqlValue| {
+            args.push(value);
+            sql.push_str(&clause.replace('?', &format!("?{}", args.len())));
+        };
+        if let Some(recipe) = &filter.recipe {
+            arg(
+                &mut sql,
+                " AND b.recipe_id = (SELECT id FROM recipes WHERE name = ?)",
+                SqlValue::Text(recipe.clone()),
+            );
+        }
+        if let Some(since) = &filter.since {
+            arg(
+                &mut sql,
+                " AND b.made_at >= ?",
+                SqlValue::Text(values::time_text(since)),
+            );
+        }
+        if let Some(until) = &filter.until {
+            arg(
+                &mut sql,
+                " AND b.made_at < ?",
+                SqlValue::Text(values::time_text(until)),
+            );
+        }
+        if let Some(query) = filter.search.as_deref().and_then(fts_query) {
+            arg(
+                &mut sql,
+                " AND b.id IN (SELECT batch_id FROM batch_search WHERE batch_search MATCH ?)",
+                SqlValue::Text(query),
+            );
+        }
+        if let Some(after) = &filter.after {
+            arg(
+                &mut sql,
+                " AND (b.made_at < ?",
+                SqlValue::Text(after.made_at.clone()),
+            );
+            arg(
+                &mut sql,
+                " OR (b.made_at = ?",
+                SqlValue::Text(after.made_at.clone()),
+            );
+            arg(&mut sql, " AND b.id < ?))", SqlValue::Integer(after.id));
+        }
+        sql.push_str(" ORDER BY b.made_at DESC, b.id DESC");
+        if filter.limit > 0 {
+            arg(&mut sql, " LIMIT ?", SqlValue::Integer(filter.limit as i64));
+        }
+        let mut stmt = self.conn.prepare_cached(&sql)?;
+        let rows = stmt.query_map(rusqlite::params_from_iter(args), |r| {
+            let made_at_text: String = r.get(4)?;
+            let amended_operator: Option<String> = r.get(9)?;
+            Ok(BatchSummary {
+                code: r.get(1)?,
+                recipe: r.get(2)?,
+                recipe_version: r.get(3)?,
+                made_at: time(r, 4)?,
+                size_g: r.get(5)?,
+                operator: match amended_operator {
+                    Some(name) => name,
+                    None => r.get(6)?,
+                },
+                status: status(&r.get::<_, String>(7)?, r.get(8)?),
+                cursor: BatchCursor {
+                    made_at: made_at_text,
+                    id: r.get(0)?,
+                },
+            })
+        })?;
+        Ok(rows.collect::<rusqlite::Result<_>>()?)
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::fts_query;
+
+    #[test]
+    fn search_words_become_quoted_prefixes() {
+        assert_eq!(fts_query("  "), None);
+        assert_eq!(
+            fts_query("L-2026 \"odd\" AND"),
+            Some("\"L-2026\"* \"odd\"* \"AND\"*".into())
+        );
+    }
+}
