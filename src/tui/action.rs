@@ -6,6 +6,7 @@
 use std::path::PathBuf;
 
 use crate::model::Recipe;
+use crate::store::{Edit, MeasurementKind};
 
 use super::state::{RecipeSource, Settings};
 
@@ -129,6 +130,15 @@ pub enum Action {
     BatchesPage(super::state::BatchPage),
     /// One batch's detail arrived.
     BatchDetail(Box<super::state::BatchDetailView>),
+    /// The user's own solutes and ingredients, read from the database at start.
+    OwnLibraryLoaded(super::state::OwnLibrary),
+    /// A batch was recorded, or changed (measurement, note, sign-off, amendment).
+    BatchChanged {
+        /// Its code.
+        code: String,
+        /// What to tell the user.
+        message: String,
+    },
     /// Something the loop did went wrong; the message says what and that data is safe.
     Failed(String),
     /// Something the loop did went right; the message says what.
@@ -138,12 +148,10 @@ pub enum Action {
 /// A recipe in the database, as the open dialog lists it.
 #[derive(Debug, Clone, PartialEq)]
 pub struct RecipeEntry {
-    /// Database id.
-    pub id: i64,
-    /// Name.
+    /// Name (unique in the database).
     pub name: String,
-    /// Latest version number.
-    pub version: i64,
+    /// Newest version number.
+    pub version: u32,
 }
 
 /// I/O for the loop to carry out; the outcome comes back as an [`Action`].
@@ -164,8 +172,8 @@ pub enum Effect {
     },
     /// Save the recipe as a new version of a recipe in the database.
     SaveVersion {
-        /// Database id of the recipe.
-        recipe_id: i64,
+        /// The recipe's name in the database.
+        name: String,
         /// The recipe.
         recipe: Recipe,
     },
@@ -173,39 +181,61 @@ pub enum Effect {
     SaveNewRecipe(Recipe),
     /// List the recipes in the database.
     ListRecipes,
-    /// Load the latest version of a recipe from the database.
-    LoadRecipe(i64),
+    /// Load the newest version of the recipe with this name from the database.
+    LoadRecipe(String),
     /// Store the settings in the database.
     SaveSettings(Settings),
+    /// Store one of the user's own solutes.
+    SaveOwnSolute(crate::model::Solute),
+    /// Store one of the user's own ingredients (with the own solutes it uses).
+    SaveOwnIngredient {
+        /// The ingredient.
+        ingredient: crate::model::Ingredient,
+        /// The user's own solutes it contains.
+        solutes: Vec<crate::model::Solute>,
+    },
     /// Fetch a page of the batch log.
     LoadBatches(super::state::BatchQuery),
-    /// Fetch one batch's detail.
-    LoadBatchDetail(i64),
+    /// Fetch one batch's detail by code.
+    LoadBatchDetail(String),
     /// Record a new batch.
-    StartBatch(super::state::NewBatch),
+    StartBatch(super::state::BatchRequest),
     /// Add a measurement to a batch.
     AddMeasurement {
-        /// Batch id.
-        batch_id: i64,
-        /// What was measured (brix, draw-temp-c, overrun-pct, ph, freezing-point-c, …).
-        kind: String,
-        /// The value, in the unit the kind names.
+        /// Batch code.
+        code: String,
+        /// What was measured.
+        kind: MeasurementKind,
+        /// The value, in the unit of the kind (°C for temperatures).
         value: f64,
+        /// Who measured.
+        by: String,
     },
     /// Add a note to a batch.
     AddNote {
-        /// Batch id.
-        batch_id: i64,
+        /// Batch code.
+        code: String,
         /// The note.
         text: String,
+        /// Who wrote it.
+        by: String,
     },
-    /// Finalise a batch.
-    Finalize(i64),
-    /// Amend a finalised batch with a correcting note.
+    /// Finalise (sign off) a batch.
+    Finalize {
+        /// Batch code.
+        code: String,
+        /// Who signs off.
+        by: String,
+    },
+    /// Amend a finalised batch: a new entry on its trail.
     Amend {
-        /// Batch id.
-        batch_id: i64,
-        /// What is corrected and why.
-        text: String,
+        /// Batch code.
+        code: String,
+        /// Who amends.
+        by: String,
+        /// Why.
+        reason: String,
+        /// What changes.
+        edits: Vec<Edit>,
     },
 }

@@ -33,7 +33,7 @@ pub fn colour_allowed() -> bool {
 pub fn run(launch: &Launch) -> anyhow::Result<()> {
     let mut services = Services::open(launch)?;
     let mut state = State::new(colour_allowed());
-    let startup = services.startup(launch);
+    let startup = services.startup(launch)?;
     let mut term = terminal::enter()?;
     let mut queue: VecDeque<Action> = startup.into();
     let outcome = (|| -> anyhow::Result<()> {

@@ -14,8 +14,9 @@
 //! - `app`: the loop: block on the next event, update, perform effects, draw.
 
 pub mod action;
-mod app;
-mod effects;
+pub mod app;
+pub mod effects;
+pub mod file_edit;
 pub mod keymap;
 pub mod screens;
 pub mod state;

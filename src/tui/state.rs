@@ -10,6 +10,7 @@ use crate::analysis::{
 };
 use crate::catalog::Catalog;
 use crate::model::{Ingredient, Recipe, Solute};
+use crate::store::{BatchCursor, MeasurementKind};
 
 use super::action::RecipeEntry;
 use super::keymap::Context;
@@ -122,10 +123,12 @@ pub enum RecipeSource {
     },
     /// A recipe in the database.
     Database {
-        /// Database id.
-        recipe_id: i64,
+        /// The recipe's name there.
+        name: String,
         /// The version in the editor.
-        version: i64,
+        version: u32,
+        /// That version's TOML text, as stored.
+        text: String,
     },
 }
 
@@ -190,14 +193,14 @@ pub struct OwnLibrary {
 /// What the batch log shows.
 #[derive(Debug, Clone, PartialEq, Default)]
 pub struct BatchQuery {
-    /// Only batches of this recipe (database id).
-    pub recipe_id: Option<i64>,
+    /// Only batches of this recipe (its name in the database).
+    pub recipe: Option<String>,
     /// Only batches made on or after this date (YYYY-MM-DD).
     pub since: Option<String>,
     /// Only batches whose text contains this.
     pub text: String,
-    /// Keyset cursor: only batches older than this (made_at, id); `None` = newest first page.
-    pub before: Option<(String, i64)>,
+    /// Keyset cursor: only batches older than this row; `None` = the newest page.
+    pub before: Option<BatchCursor>,
     /// Rows per page.
     pub limit: usize,
 }
@@ -205,22 +208,24 @@ pub struct BatchQuery {
 /// One row of the batch log.
 #[derive(Debug, Clone, PartialEq)]
 pub struct BatchRow {
-    /// Database id.
-    pub id: i64,
-    /// Batch code shown to the user.
+    /// Batch code, unique.
     pub code: String,
     /// When it was made (ISO 8601, UTC).
     pub made_at: String,
     /// Recipe name.
     pub recipe_name: String,
     /// Recipe version.
-    pub version: i64,
+    pub version: u32,
     /// Batch size (g).
     pub size_g: f64,
     /// Who made it.
     pub operator: String,
-    /// Whether it is finalised.
+    /// Draft, final or amended.
+    pub status: String,
+    /// Whether it is finalised (final or amended).
     pub finalized: bool,
+    /// Where the row sits in the log, to fetch the rows after it.
+    pub cursor: Option<BatchCursor>,
 }
 
 /// A page of the batch log.
@@ -237,12 +242,25 @@ pub struct BatchPage {
 /// A figure predicted for a batch, with what was measured.
 #[derive(Debug, Clone, PartialEq)]
 pub struct Comparison {
-    /// What (e.g. "freezing point").
-    pub label: String,
-    /// The prediction, formatted.
-    pub predicted: String,
-    /// The measurement, formatted, if any.
-    pub measured: Option<String>,
+    /// What.
+    pub kind: MeasurementKind,
+    /// The prediction, in the kind's unit.
+    pub predicted: Option<f64>,
+    /// The latest measurement, in the kind's unit.
+    pub measured: Option<f64>,
+}
+
+/// One measurement of a batch.
+#[derive(Debug, Clone, PartialEq)]
+pub struct MeasurementRow {
+    /// When (UTC, to the minute).
+    pub at: String,
+    /// What.
+    pub kind: MeasurementKind,
+    /// The value, in the kind's unit.
+    pub value: f64,
+    /// Who measured.
+    pub by: String,
 }
 
 /// One batch in full.
@@ -254,25 +272,27 @@ pub struct BatchDetailView {
     pub lines: Vec<(String, f64, String)>,
     /// Predicted against measured.
     pub comparisons: Vec<Comparison>,
-    /// Measurements: when, kind, value.
-    pub measurements: Vec<(String, String, f64)>,
-    /// Notes and amendments: when, text.
-    pub notes: Vec<(String, String)>,
+    /// Measurements, oldest first.
+    pub measurements: Vec<MeasurementRow>,
+    /// Notes and amendments, oldest first: when, who, text.
+    pub notes: Vec<(String, String, String)>,
 }
 
 /// A new batch to record.
 #[derive(Debug, Clone, PartialEq)]
-pub struct NewBatch {
-    /// The recipe (scaled to the batch size).
+pub struct BatchRequest {
+    /// The recipe as in the editor (the store scales it to the size).
     pub recipe: Recipe,
-    /// The recipe's database id, when it is saved there.
-    pub recipe_id: Option<i64>,
+    /// Its TOML text as stored, when the editor holds it unchanged.
+    pub recipe_text: Option<String>,
     /// Batch size (g).
     pub size_g: f64,
     /// Who makes it.
     pub operator: String,
     /// Lot of each line, in line order (may be empty).
     pub lots: Vec<String>,
+    /// A first note (may be empty).
+    pub note: String,
 }
 
 /// The batch log screen.
@@ -356,10 +376,8 @@ pub enum PromptPurpose {
     BatchSearch,
     /// The date from which batches are shown.
     BatchSince,
-    /// A note for a batch.
-    BatchNote(i64),
-    /// An amendment of a batch.
-    BatchAmend(i64),
+    /// A note for the batch with this code.
+    BatchNote(String),
     /// A setting's value.
     Setting(SettingField),
 }
@@ -421,8 +439,10 @@ pub enum FormPurpose {
     Solute(Option<usize>),
     /// A new batch from the recipe in the editor.
     Batch,
-    /// A measurement for this batch.
-    Measurement(i64),
+    /// A measurement for the batch with this code.
+    Measurement(String),
+    /// An amendment of the batch with this code.
+    Amend(String),
 }
 
 /// One field of a form.
@@ -472,12 +492,12 @@ pub enum ReaderKind {
 }
 
 /// What a yes/no question decides.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+#[derive(Debug, Clone, PartialEq, Eq)]
 pub enum Question {
     /// Quit despite unsaved changes.
     QuitUnsaved,
-    /// Finalise the open batch.
-    Finalize(i64),
+    /// Finalise the batch with this code.
+    Finalize(String),
 }
 
 /// Something drawn over the screen that takes the keys.

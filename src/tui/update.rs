@@ -49,6 +49,19 @@ pub fn update(state: &mut State, action: Action) -> Vec<Effect> {
             state.batches.detail = Some(*detail);
             Vec::new()
         }
+        Action::OwnLibraryLoaded(own) => {
+            state.own = own;
+            state.refresh_catalog();
+            ingredients::refresh_matches(state);
+            state.reanalyse();
+            Vec::new()
+        }
+        Action::BatchChanged { code, message } => {
+            state.tell(message);
+            let mut effects = batches::reload(state);
+            effects.push(Effect::LoadBatchDetail(code));
+            effects
+        }
         Action::Failed(text) => {
             state.batches.loading = false;
             state.warn(text);
@@ -132,7 +145,7 @@ fn overlay_update(state: &mut State, command: Command) -> Vec<Effect> {
         Overlay::Confirm(question) => match command {
             Command::Yes => match question {
                 Question::QuitUnsaved => vec![Effect::Quit],
-                Question::Finalize(id) => vec![Effect::Finalize(id)],
+                Question::Finalize(code) => batches::finalize(state, code),
             },
             Command::No | Command::Cancel => Vec::new(),
             _ => {
@@ -161,10 +174,7 @@ fn overlay_update(state: &mut State, command: Command) -> Vec<Effect> {
                         recipe::ask_new_line_amount(state, &item.key);
                         Vec::new()
                     }
-                    (Some(item), PickerPurpose::Recipe(_)) => match item.key.parse::<i64>() {
-                        Ok(id) => vec![Effect::LoadRecipe(id)],
-                        Err(_) => Vec::new(),
-                    },
+                    (Some(item), PickerPurpose::Recipe(_)) => vec![Effect::LoadRecipe(item.key)],
                     (None, purpose) => {
                         picker.purpose = purpose;
                         state.overlay = Some(Overlay::Picker(picker));
@@ -315,7 +325,7 @@ fn accept_prompt(state: &mut State, prompt: super::state::Prompt) -> Vec<Effect>
         | P::SaveAsName
         | P::OpenFilePath => recipe::accept(state, &prompt.purpose, &text),
         P::IngredientSearch => Ok(Vec::new()),
-        P::BatchSearch | P::BatchSince | P::BatchNote(_) | P::BatchAmend(_) => {
+        P::BatchSearch | P::BatchSince | P::BatchNote(_) => {
             batches::accept(state, &prompt.purpose, &text)
         }
         P::Setting(field) => settings::accept(state, *field, &text),
@@ -334,18 +344,18 @@ fn accept_prompt(state: &mut State, prompt: super::state::Prompt) -> Vec<Effect>
 
 fn check_form(state: &State, form: &mut super::state::Form) {
     use super::state::FormPurpose as F;
-    match form.purpose {
+    match &form.purpose {
         F::Ingredient(_) | F::Solute(_) => ingredients::check_form(state, form),
-        F::Batch | F::Measurement(_) => batches::check_form(state, form),
+        F::Batch | F::Measurement(_) | F::Amend(_) => batches::check_form(state, form),
     }
 }
 
 fn submit_form(state: &mut State, mut form: super::state::Form) -> Vec<Effect> {
     use super::state::FormPurpose as F;
     check_form(state, &mut form);
-    let outcome = match form.purpose {
+    let outcome = match &form.purpose {
         F::Ingredient(_) | F::Solute(_) => ingredients::submit(state, &form),
-        F::Batch | F::Measurement(_) => batches::submit(state, &form),
+        F::Batch | F::Measurement(_) | F::Amend(_) => batches::submit(state, &form),
     };
     match outcome {
         Ok(effects) => effects,

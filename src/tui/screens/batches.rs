@@ -3,10 +3,12 @@
 //! filters, one batch's detail, and the forms that record a batch, a
 //! measurement, a note, a finalisation or an amendment.
 
+use crate::store::{Edit, MeasurementKind};
+
 use super::super::action::{Command, Effect};
 use super::super::state::{
-    BatchPage, Field, Form, FormPurpose, NewBatch, Overlay, PromptPurpose, Question, RecipeSource,
-    Screen, State,
+    BatchPage, BatchRequest, Field, Form, FormPurpose, Overlay, PromptPurpose, Question,
+    RecipeSource, Screen, State,
 };
 use super::super::units::{self, parse_mass};
 use super::move_cursor;
@@ -15,41 +17,28 @@ use super::recipe::{display_name, prompt};
 /// Rows from the end of what is loaded at which the next page is fetched.
 pub const PREFETCH_ROWS: usize = 60;
 
-/// What can be measured on a batch: (kind as stored, label, whether it is a temperature).
-pub const MEASUREMENT_KINDS: &[(&str, &str, bool)] = &[
-    ("brix", "Brix, °Bx", false),
-    ("ph", "pH", false),
-    ("overrun-pct", "overrun, %", false),
-    ("draw-temp-c", "draw temperature", true),
-    ("freezing-point-c", "freezing point", true),
-    ("acidity-pct", "titratable acidity, %", false),
-];
-
 /// Handles a command on the batch log (list or detail).
 pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
     if let Some(detail) = &state.batches.detail {
-        let id = detail.row.id;
+        let code = detail.row.code.clone();
         let finalized = detail.row.finalized;
         match command {
             Command::Cancel => state.batches.detail = None,
-            Command::AddMeasurement => open_measurement_form(state, id),
+            Command::AddMeasurement => open_measurement_form(state, code),
             Command::AddNote => prompt(
                 state,
-                PromptPurpose::BatchNote(id),
-                "Note for this batch".into(),
+                PromptPurpose::BatchNote(code),
+                "Note for this batch (deviation, correction, tasting)".into(),
                 String::new(),
             ),
-            Command::Finalize if finalized => state.tell("This batch is already finalised."),
-            Command::Finalize => state.overlay = Some(Overlay::Confirm(Question::Finalize(id))),
-            Command::Amend if !finalized => {
-                state.tell("Only a finalised batch is amended; add a note instead (n).")
+            Command::Finalize if finalized => state.tell("This batch is already final."),
+            Command::Finalize => {
+                state.overlay = Some(Overlay::Confirm(Question::Finalize(code)));
             }
-            Command::Amend => prompt(
-                state,
-                PromptPurpose::BatchAmend(id),
-                "Amendment: what is corrected and why".into(),
-                String::new(),
-            ),
+            Command::Amend if !finalized => {
+                state.tell("A draft is not amended: add a note (n), or finalise it first (F).")
+            }
+            Command::Amend => open_amend_form(state, code),
             _ => {}
         }
         return Vec::new();
@@ -67,7 +56,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
         }
         Command::OpenDetail => {
             if let Some(row) = state.batches.rows.get(state.batches.cursor) {
-                return vec![Effect::LoadBatchDetail(row.id)];
+                return vec![Effect::LoadBatchDetail(row.code.clone())];
             }
         }
         Command::Search => {
@@ -82,22 +71,16 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
         Command::ClearFilter => {
             state.batches.query.text.clear();
             state.batches.query.since = None;
-            state.batches.query.recipe_id = None;
+            state.batches.query.recipe = None;
             return reload(state);
         }
         Command::FilterRecipe => {
-            if state.batches.query.recipe_id.is_some() {
-                state.batches.query.recipe_id = None;
-                return reload(state);
+            if state.batches.query.recipe.is_some() {
+                state.batches.query.recipe = None;
+            } else {
+                state.batches.query.recipe = Some(state.recipe.recipe.name.clone());
             }
-            match state.recipe.source {
-                RecipeSource::Database { recipe_id, .. } => {
-                    state.batches.query.recipe_id = Some(recipe_id);
-                    return reload(state);
-                }
-                _ => state
-                    .tell("The recipe in the editor is not in the database yet: save it first."),
-            }
+            return reload(state);
         }
         Command::FilterDate => {
             let text = state.batches.query.since.clone().unwrap_or_default();
@@ -134,7 +117,7 @@ fn prefetch(state: &mut State) -> Vec<Effect> {
         return Vec::new();
     };
     let mut query = b.query.clone();
-    query.before = Some((last.made_at.clone(), last.id));
+    query.before = last.cursor.clone();
     b.loading = true;
     vec![Effect::LoadBatches(query)]
 }
@@ -195,17 +178,45 @@ pub fn open_batch_form(state: &mut State) {
     state.overlay = Some(Overlay::Form(form));
 }
 
-fn open_measurement_form(state: &mut State, batch_id: i64) {
-    let kinds: Vec<&str> = MEASUREMENT_KINDS.iter().map(|k| k.0).collect();
+/// The measurement kinds, as typed in the form.
+pub fn measurement_names() -> String {
+    MeasurementKind::names()
+}
+
+fn open_measurement_form(state: &mut State, code: String) {
     let mut form = Form {
-        purpose: FormPurpose::Measurement(batch_id),
+        purpose: FormPurpose::Measurement(code),
         title: "Add a measurement".into(),
         fields: vec![
-            Field::new(format!("What ({})", kinds.join(", ")), "brix"),
+            Field::new("What", "brix"),
             Field::new("Value", String::new()),
         ],
         focus: 1,
-        summary: None,
+        summary: Some(format!("What: one of {}", measurement_names())),
+    };
+    check_form(state, &mut form);
+    state.overlay = Some(Overlay::Form(form));
+}
+
+const AMEND_REASON: usize = 0;
+const AMEND_LINE: usize = 1;
+const AMEND_LOT: usize = 2;
+const AMEND_MASS: usize = 3;
+const AMEND_OPERATOR: usize = 4;
+
+fn open_amend_form(state: &mut State, code: String) {
+    let mut form = Form {
+        purpose: FormPurpose::Amend(code),
+        title: "Amend a final batch (a new entry; the record stays)".into(),
+        fields: vec![
+            Field::new("Reason", String::new()),
+            Field::new("Line (ingredient or number)", String::new()),
+            Field::new("Correct lot", String::new()),
+            Field::new("Correct weighed mass", String::new()),
+            Field::new("Correct operator", String::new()),
+        ],
+        focus: 0,
+        summary: Some("Fill in the reason and at least one correction.".into()),
     };
     check_form(state, &mut form);
     state.overlay = Some(Overlay::Form(form));
@@ -215,72 +226,124 @@ fn value(form: &Form, at: usize) -> &str {
     form.fields.get(at).map_or("", |f| f.input.value().trim())
 }
 
-fn measurement(state: &State, form: &Form) -> Result<(String, f64), String> {
-    let kind = value(form, 0);
-    let Some(&(kind, _, is_temp)) = MEASUREMENT_KINDS.iter().find(|k| k.0 == kind) else {
-        let kinds: Vec<&str> = MEASUREMENT_KINDS.iter().map(|k| k.0).collect();
-        return Err(format!("one of: {}", kinds.join(", ")));
-    };
+fn is_temperature(kind: MeasurementKind) -> bool {
+    kind.unit() == "°C"
+}
+
+/// The measurement a form describes; temperatures are typed in the display unit.
+fn measurement(state: &State, form: &Form) -> Result<(MeasurementKind, f64), String> {
+    let kind = MeasurementKind::parse(value(form, 0))
+        .ok_or_else(|| format!("one of: {}", measurement_names()))?;
     let text = value(form, 1);
-    let v = if is_temp {
-        let unit = state.settings.temp_unit;
+    let number = |t: &str| {
+        t.replace(',', ".")
+            .parse::<f64>()
+            .ok()
+            .filter(|x| x.is_finite())
+            .ok_or_else(|| format!("`{text}` is not a number"))
+    };
+    let v = if is_temperature(kind) {
         let t = text
             .trim_end_matches(['c', 'C', 'f', 'F'])
             .trim_end_matches('°');
-        let x: f64 = t
-            .replace(',', ".")
-            .parse()
-            .map_err(|_| format!("`{text}` is not a number"))?;
-        let c = units::temp_to_c(x, unit);
-        if !(-60.0..=100.0).contains(&c) {
-            return Err("give a temperature between -60 and 100 °C".into());
-        }
-        c
+        units::temp_to_c(number(t)?, state.settings.temp_unit)
     } else {
-        let x = text
-            .replace(',', ".")
-            .parse::<f64>()
-            .ok()
-            .filter(|x| x.is_finite());
-        let x = x.ok_or_else(|| format!("`{text}` is not a number"))?;
+        let x = number(text)?;
         if x < 0.0 {
             return Err("must be zero or more".into());
         }
         x
     };
-    Ok((kind.to_string(), v))
+    Ok((kind, v))
 }
 
-/// Checks a batch or measurement form field by field.
+fn amend_edits(state: &State, form: &Form) -> Result<Vec<Edit>, String> {
+    let line = value(form, AMEND_LINE);
+    let mut edits = Vec::new();
+    let lot = value(form, AMEND_LOT);
+    let mass = value(form, AMEND_MASS);
+    if (!lot.is_empty() || !mass.is_empty()) && line.is_empty() {
+        return Err("name the line the lot or mass belongs to".into());
+    }
+    if !lot.is_empty() {
+        edits.push(Edit::Lot {
+            line: line.to_string(),
+            lot: lot.to_string(),
+        });
+    }
+    if !mass.is_empty() {
+        edits.push(Edit::ActualG {
+            line: line.to_string(),
+            grams: parse_mass(mass, state.settings.mass_unit)?,
+        });
+    }
+    let operator = value(form, AMEND_OPERATOR);
+    if !operator.is_empty() {
+        edits.push(Edit::Operator(operator.to_string()));
+    }
+    if edits.is_empty() {
+        return Err("give at least one correction: a lot, a mass or the operator".into());
+    }
+    Ok(edits)
+}
+
+/// Checks a batch, measurement or amendment form field by field.
 pub fn check_form(state: &State, form: &mut Form) {
-    match form.purpose {
+    let mut problems: Vec<(usize, Option<String>)> = Vec::new();
+    match &form.purpose {
         FormPurpose::Batch => {
-            let size = parse_mass(value(form, 0), state.settings.mass_unit).err();
-            let operator = value(form, 1)
-                .is_empty()
-                .then(|| "who makes the batch (initials will do)".to_string());
-            if let Some(f) = form.fields.get_mut(0) {
-                f.problem = size;
-            }
-            if let Some(f) = form.fields.get_mut(1) {
-                f.problem = operator;
-            }
+            problems.push((
+                0,
+                parse_mass(value(form, 0), state.settings.mass_unit).err(),
+            ));
+            problems.push((
+                1,
+                value(form, 1)
+                    .is_empty()
+                    .then(|| "who makes the batch (initials will do)".to_string()),
+            ));
         }
         FormPurpose::Measurement(_) => {
-            let kind_ok = MEASUREMENT_KINDS.iter().any(|k| k.0 == value(form, 0));
+            let kind_ok = MeasurementKind::parse(value(form, 0)).is_some();
             let problem = measurement(state, form).err();
-            if let Some(f) = form.fields.get_mut(0) {
-                f.problem = (!kind_ok).then(|| problem.clone().unwrap_or_default());
-            }
-            if let Some(f) = form.fields.get_mut(1) {
-                f.problem = if kind_ok { problem } else { None };
-            }
+            problems.push((0, (!kind_ok).then(|| problem.clone().unwrap_or_default())));
+            problems.push((1, if kind_ok { problem } else { None }));
+        }
+        FormPurpose::Amend(_) => {
+            problems.push((
+                AMEND_REASON,
+                value(form, AMEND_REASON)
+                    .is_empty()
+                    .then(|| "say why the record is corrected".to_string()),
+            ));
+            let mass = value(form, AMEND_MASS);
+            problems.push((
+                AMEND_MASS,
+                (!mass.is_empty())
+                    .then(|| parse_mass(mass, state.settings.mass_unit).err())
+                    .flatten(),
+            ));
         }
         _ => {}
     }
+    for (at, problem) in problems {
+        if let Some(f) = form.fields.get_mut(at) {
+            f.problem = problem;
+        }
+    }
 }
 
-/// Turns a submitted batch or measurement form into its effect.
+/// Who is signing: the operator from the settings.
+fn signer(state: &State) -> Result<String, String> {
+    let name = state.settings.operator.trim();
+    if name.is_empty() {
+        Err("set the operator's name in the settings (4) first".into())
+    } else {
+        Ok(name.to_string())
+    }
+}
+
+/// Turns a submitted batch, measurement or amendment form into its effect.
 pub fn submit(state: &mut State, form: &Form) -> Result<Vec<Effect>, String> {
     if let Some(f) = form.fields.iter().find(|f| f.problem.is_some()) {
         return Err(format!(
@@ -289,38 +352,42 @@ pub fn submit(state: &mut State, form: &Form) -> Result<Vec<Effect>, String> {
             f.problem.clone().unwrap_or_default()
         ));
     }
-    match form.purpose {
+    match &form.purpose {
         FormPurpose::Batch => {
             let size_g = parse_mass(value(form, 0), state.settings.mass_unit)?;
-            let current_g = state
-                .recipe
-                .analysis
-                .as_ref()
-                .map(|a| a.mass_g)
-                .map_err(|e| e.clone())?;
-            let recipe_id = match state.recipe.source {
-                RecipeSource::Database { recipe_id, .. } => Some(recipe_id),
-                _ => None,
-            };
             let lots = (2..form.fields.len())
                 .map(|at| value(form, at).to_string())
                 .collect();
-            Ok(vec![Effect::StartBatch(NewBatch {
-                recipe: state.recipe.recipe.scaled(size_g / current_g),
-                recipe_id,
+            let recipe_text = match &state.recipe.source {
+                _ if state.recipe.is_dirty() => None,
+                RecipeSource::Database { text, .. } => Some(text.clone()),
+                RecipeSource::File { original, .. } => original.clone(),
+                RecipeSource::New => None,
+            };
+            Ok(vec![Effect::StartBatch(BatchRequest {
+                recipe: state.recipe.recipe.clone(),
+                recipe_text,
                 size_g,
                 operator: value(form, 1).to_string(),
                 lots,
+                note: String::new(),
             })])
         }
-        FormPurpose::Measurement(batch_id) => {
+        FormPurpose::Measurement(code) => {
             let (kind, value) = measurement(state, form)?;
             Ok(vec![Effect::AddMeasurement {
-                batch_id,
+                code: code.clone(),
                 kind,
                 value,
+                by: signer(state)?,
             }])
         }
+        FormPurpose::Amend(code) => Ok(vec![Effect::Amend {
+            code: code.clone(),
+            by: signer(state)?,
+            reason: value(form, AMEND_REASON).to_string(),
+            edits: amend_edits(state, form)?,
+        }]),
         _ => Ok(Vec::new()),
     }
 }
@@ -347,22 +414,27 @@ pub fn accept(
             }
             Ok(reload(state))
         }
-        PromptPurpose::BatchNote(id) | PromptPurpose::BatchAmend(id) => {
+        PromptPurpose::BatchNote(code) => {
             if text.is_empty() {
-                return Err("type the text, or Esc to back out".into());
+                return Err("type the note, or Esc to back out".into());
             }
-            Ok(vec![if matches!(purpose, PromptPurpose::BatchNote(_)) {
-                Effect::AddNote {
-                    batch_id: *id,
-                    text: text.to_string(),
-                }
-            } else {
-                Effect::Amend {
-                    batch_id: *id,
-                    text: text.to_string(),
-                }
+            Ok(vec![Effect::AddNote {
+                code: code.clone(),
+                text: text.to_string(),
+                by: signer(state)?,
             }])
         }
         _ => Ok(Vec::new()),
+    }
+}
+
+/// The effect of finalising a batch, once confirmed.
+pub fn finalize(state: &mut State, code: String) -> Vec<Effect> {
+    match signer(state) {
+        Ok(by) => vec![Effect::Finalize { code, by }],
+        Err(reason) => {
+            state.warn(reason);
+            Vec::new()
+        }
     }
 }

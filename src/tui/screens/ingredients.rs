@@ -459,6 +459,17 @@ pub fn submit(state: &mut State, form: &Form) -> Result<Vec<Effect>, String> {
                 None => state.own.ingredients.push(ingredient.clone()),
             }
             let id = ingredient.id.clone();
+            let solutes = state
+                .own
+                .solutes
+                .iter()
+                .filter(|s| ingredient.solutes_pct.contains_key(&s.id))
+                .cloned()
+                .collect();
+            let effect = Effect::SaveOwnIngredient {
+                ingredient: ingredient.clone(),
+                solutes,
+            };
             super::recipe::change(state, |r| {
                 if let Some(copy) = r.ingredients.iter_mut().find(|i| i.id == id) {
                     *copy = ingredient;
@@ -466,6 +477,8 @@ pub fn submit(state: &mut State, form: &Form) -> Result<Vec<Effect>, String> {
             });
             state.ingredients.list = CatalogList::Ingredients;
             state.tell(format!("Saved your ingredient {name}."));
+            finish(state);
+            return Ok(vec![effect]);
         }
         FormPurpose::Solute(own) => {
             let solute = solute_from(form)?;
@@ -475,6 +488,7 @@ pub fn submit(state: &mut State, form: &Form) -> Result<Vec<Effect>, String> {
                 None => state.own.solutes.push(solute.clone()),
             }
             let id = solute.id.clone();
+            let effect = Effect::SaveOwnSolute(solute.clone());
             super::recipe::change(state, |r| {
                 if let Some(copy) = r.solutes.iter_mut().find(|s| s.id == id) {
                     *copy = solute;
@@ -482,11 +496,15 @@ pub fn submit(state: &mut State, form: &Form) -> Result<Vec<Effect>, String> {
             });
             state.ingredients.list = CatalogList::Solutes;
             state.tell(format!("Saved your solute {name}."));
+            finish(state);
+            Ok(vec![effect])
         }
-        _ => return Ok(Vec::new()),
+        _ => Ok(Vec::new()),
     }
+}
+
+fn finish(state: &mut State) {
     state.refresh_catalog();
     state.reanalyse();
     refresh_matches(state);
-    Ok(Vec::new())
 }

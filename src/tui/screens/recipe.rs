@@ -192,8 +192,8 @@ fn save(state: &mut State) -> Vec<Effect> {
             original: original.clone(),
             recipe,
         }],
-        RecipeSource::Database { recipe_id, .. } => vec![Effect::SaveVersion {
-            recipe_id: *recipe_id,
+        RecipeSource::Database { name, .. } => vec![Effect::SaveVersion {
+            name: name.clone(),
             recipe,
         }],
         RecipeSource::New => {
@@ -294,7 +294,7 @@ pub fn refresh_picker(state: &State, picker: &mut Picker) {
                 (
                     false,
                     PickItem {
-                        key: e.id.to_string(),
+                        key: e.name.clone(),
                         label: e.name.clone(),
                         detail: format!("version {}", e.version),
                     },

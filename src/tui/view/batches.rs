@@ -8,7 +8,10 @@ use ratatui::text::{Line, Span};
 use ratatui::widgets::{Block, Paragraph, Row, Table, TableState, Wrap};
 
 use super::super::state::{BatchDetailView, State};
-use super::super::units::fmt_mass;
+use crate::store::MeasurementKind;
+
+use super::super::state::TempUnit;
+use super::super::units::{fmt_mass, fmt_temp, trim_number};
 use super::theme::{CURSOR_MARK, Theme};
 
 /// Draws the batch log or the open batch.
@@ -22,8 +25,8 @@ pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
 fn filters(state: &State) -> String {
     let q = &state.batches.query;
     let mut parts = Vec::new();
-    if q.recipe_id.is_some() {
-        parts.push(format!("recipe: {}", state.recipe.recipe.name));
+    if let Some(recipe) = &q.recipe {
+        parts.push(format!("recipe: {recipe}"));
     }
     if let Some(since) = &q.since {
         parts.push(format!("since {since}"));
@@ -67,13 +70,15 @@ fn render_list(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
         "loading…".to_string()
     } else if b.more {
         format!("{}+ batches", b.rows.len())
+    } else if b.rows.len() == 1 {
+        "1 batch".to_string()
     } else {
         format!("{} batches", b.rows.len())
     };
     let table = Table::new(
         rows,
         [
-            Constraint::Length(16),
+            Constraint::Length(18),
             Constraint::Length(16),
             Constraint::Min(14),
             Constraint::Length(11),
@@ -153,34 +158,36 @@ fn render_detail(state: &State, d: &BatchDetailView, theme: Theme, frame: &mut F
             ))),
         left,
     );
+    let t = state.settings.temp_unit;
     let mut lines = vec![Line::from(Span::styled(
-        format!("{:<18}{:>14}{:>14}", "", "predicted", "measured"),
+        format!("{:<18}{:>12}{:>12}", "", "predicted", "measured"),
         theme.title(),
     ))];
     for c in &d.comparisons {
+        let show = |v: Option<f64>| v.map_or("-".to_string(), |x| measured_text(c.kind, x, t));
         lines.push(Line::from(format!(
-            "{:<18}{:>14}{:>14}",
-            c.label,
-            c.predicted,
-            c.measured.clone().unwrap_or_else(|| "-".into())
+            "{:<18}{:>12}{:>12}",
+            kind_label(c.kind),
+            show(c.predicted),
+            show(c.measured)
         )));
     }
     lines.push(Line::from(Span::styled("Measurements", theme.title())));
-    for (at, kind, value) in &d.measurements {
+    for m in &d.measurements {
         lines.push(Line::from(format!(
-            "  {} {kind} {value}",
-            at.get(..16).unwrap_or(at)
+            "  {} {} {} ({})",
+            m.at,
+            kind_label(m.kind),
+            measured_text(m.kind, m.value, t),
+            m.by
         )));
     }
     lines.push(Line::from(Span::styled(
         "Notes and amendments",
         theme.title(),
     )));
-    for (at, text) in &d.notes {
-        lines.push(Line::from(format!(
-            "  {} {text}",
-            at.get(..16).unwrap_or(at)
-        )));
+    for (at, by, text) in &d.notes {
+        lines.push(Line::from(format!("  {at} {by}: {text}")));
     }
     frame.render_widget(
         Paragraph::new(lines).wrap(Wrap { trim: false }).block(
@@ -188,4 +195,30 @@ fn render_detail(state: &State, d: &BatchDetailView, theme: Theme, frame: &mut F
         ),
         right,
     );
+}
+
+/// The words for a measured figure.
+pub fn kind_label(kind: MeasurementKind) -> &'static str {
+    match kind {
+        MeasurementKind::Brix => "Brix",
+        MeasurementKind::Ph => "pH",
+        MeasurementKind::OverrunPct => "overrun",
+        MeasurementKind::DrawTempC => "draw temperature",
+        MeasurementKind::ServingTempC => "serving temp.",
+        MeasurementKind::FreezingPointC => "freezing point",
+        MeasurementKind::MassG => "batch mass",
+        MeasurementKind::AbvPct => "ABV",
+        MeasurementKind::TitratableAcidityPct => "acidity",
+        MeasurementKind::PasteuriseTempC => "pasteurised at",
+        MeasurementKind::PasteuriseTimeS => "pasteurised for",
+    }
+}
+
+/// A measured or predicted value with its unit; temperatures in the display unit.
+pub fn measured_text(kind: MeasurementKind, value: f64, unit: TempUnit) -> String {
+    match kind.unit() {
+        "°C" => fmt_temp(value, unit),
+        "g" => format!("{value:.0} g"),
+        other => format!("{} {other}", trim_number((value * 100.0).round() / 100.0)),
+    }
 }

@@ -22,7 +22,7 @@ pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
         Some(Overlay::Picker(p)) => picker(p, theme, frame, area),
         Some(Overlay::Form(f)) => form(f, theme, frame, area),
         Some(Overlay::Reader(kind, scroll)) => reader(state, *kind, *scroll, theme, frame, area),
-        Some(Overlay::Confirm(q)) => confirm(state, *q, theme, frame, area),
+        Some(Overlay::Confirm(q)) => confirm(state, q, theme, frame, area),
     }
 }
 
@@ -290,7 +290,7 @@ fn reader(
     );
 }
 
-fn confirm(state: &State, q: Question, theme: Theme, frame: &mut Frame, area: Rect) {
+fn confirm(state: &State, q: &Question, theme: Theme, frame: &mut Frame, area: Rect) {
     let text = match q {
         Question::QuitUnsaved => format!(
             "{} has unsaved changes. Quit and lose them?",

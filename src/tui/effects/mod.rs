@@ -1,0 +1,318 @@
+//! Carrying out effects: the only part of the workspace that reads or writes
+//! files and the database. Each effect's outcome comes back as actions, and a
+//! failure is an [`Action::Failed`] that says what happened and that the data
+//! already stored is safe; nothing here ends the program.
+
+mod convert;
+
+use std::path::{Path, PathBuf};
+
+use anyhow::Context as _;
+
+use crate::model::Recipe;
+use crate::recipe_file::{parse_recipe, read_recipe, recipe_to_toml};
+use crate::store::plan::{BatchSize, Plan, plan_batch};
+use crate::store::{BatchFilter, CustomItem, Store};
+
+use super::action::{Action, Effect, RecipeEntry};
+use super::app::Launch;
+use super::file_edit;
+use super::state::{BatchPage, BatchQuery, BatchRequest, RecipeSource};
+
+pub use convert::{load_settings, settings_pairs};
+
+/// The files and database the workspace works on.
+pub struct Services {
+    store: Store,
+}
+
+impl Services {
+    /// Opens the database the launch names (created and seeded on first use).
+    pub fn open(launch: &Launch) -> anyhow::Result<Services> {
+        let store = match &launch.db {
+            Some(path) => Store::open(path)
+                .with_context(|| format!("could not open the batch log {}", path.display()))?,
+            None => Store::open_default().context("could not open the default batch log")?,
+        };
+        Ok(Services { store })
+    }
+
+    /// The actions that set the workspace up: settings, the user's own items and
+    /// the recipe to open (the file asked for, else the first recipe in the
+    /// database). A file that cannot be read is an error before anything is drawn.
+    pub fn startup(&mut self, launch: &Launch) -> anyhow::Result<Vec<Action>> {
+        let mut actions = vec![Action::SettingsLoaded(load_settings(&self.store))];
+        match convert::load_own_library(&self.store) {
+            Ok(own) => actions.push(Action::OwnLibraryLoaded(own)),
+            Err(e) => actions.push(Action::Failed(format!(
+                "your own solutes and ingredients could not be read: {e}"
+            ))),
+        }
+        if let Some(path) = &launch.file {
+            let (recipe, text) = read_recipe(path).map_err(|e| anyhow::anyhow!("{e}"))?;
+            actions.push(loaded_file(path, recipe, text));
+        } else if let Ok(recipes) = self.store.recipes()
+            && let Some(first) = recipes.first()
+        {
+            actions.push(self.load(&first.name));
+        }
+        Ok(actions)
+    }
+
+    /// Carries out one effect.
+    pub fn perform(&mut self, effect: Effect) -> Vec<Action> {
+        match self.try_perform(effect) {
+            Ok(actions) => actions,
+            Err(e) => vec![Action::Failed(format!("{e:#}"))],
+        }
+    }
+
+    fn try_perform(&mut self, effect: Effect) -> anyhow::Result<Vec<Action>> {
+        let s = &mut self.store;
+        Ok(match effect {
+            Effect::Quit => Vec::new(),
+            Effect::OpenFile(path) => {
+                let (recipe, text) = read_recipe(&path).map_err(|e| anyhow::anyhow!("{e}"))?;
+                vec![loaded_file(&path, recipe, text)]
+            }
+            Effect::SaveFile {
+                path,
+                original,
+                recipe,
+            } => vec![save_file(&path, original.as_deref(), recipe)?],
+            Effect::SaveVersion { name, recipe } => {
+                let renamed = name != recipe.name;
+                let mut action = save_version(s, recipe)?;
+                if renamed && let Action::Saved { message, .. } = &mut action {
+                    message.push_str(" (a new name makes a new recipe in the database)");
+                }
+                vec![action]
+            }
+            Effect::SaveNewRecipe(recipe) => {
+                if !s.recipe_versions(&recipe.name)?.is_empty() {
+                    anyhow::bail!(
+                        "a recipe named `{}` is already in the database; save under another name (S)",
+                        recipe.name
+                    );
+                }
+                vec![save_version(s, recipe)?]
+            }
+            Effect::ListRecipes => vec![Action::RecipeList(
+                s.recipes()?
+                    .into_iter()
+                    .map(|r| RecipeEntry {
+                        name: r.name,
+                        version: r.latest_version,
+                    })
+                    .collect(),
+            )],
+            Effect::LoadRecipe(name) => vec![self.load(&name)],
+            Effect::SaveSettings(settings) => {
+                for (key, value) in settings_pairs(&settings) {
+                    s.set_setting(key, &value)?;
+                }
+                Vec::new()
+            }
+            Effect::SaveOwnSolute(solute) => {
+                let item =
+                    convert::own_item(&solute.id, &solute.name, vec![solute.clone()], Vec::new());
+                s.save_custom_solute(&item)?;
+                Vec::new()
+            }
+            Effect::SaveOwnIngredient {
+                ingredient,
+                solutes,
+            } => {
+                let item: CustomItem = convert::own_item(
+                    &ingredient.id,
+                    &ingredient.name,
+                    solutes,
+                    vec![ingredient.clone()],
+                );
+                s.save_custom_ingredient(&item)?;
+                Vec::new()
+            }
+            Effect::LoadBatches(query) => vec![Action::BatchesPage(load_page(s, query)?)],
+            Effect::LoadBatchDetail(code) => match s.batch(&code)? {
+                Some(batch) => vec![Action::BatchDetail(Box::new(convert::detail(&batch)))],
+                None => anyhow::bail!("there is no batch {code}"),
+            },
+            Effect::StartBatch(request) => vec![start_batch(s, request)?],
+            Effect::AddMeasurement {
+                code,
+                kind,
+                value,
+                by,
+            } => {
+                s.add_measurement(&code, kind, value, &by)?;
+                changed(code, "Measurement recorded.")
+            }
+            Effect::AddNote { code, text, by } => {
+                s.add_note(&code, &text, &by)?;
+                changed(code, "Note added.")
+            }
+            Effect::Finalize { code, by } => {
+                s.finalize(&code, &by)?;
+                changed(
+                    code,
+                    "Batch finalised: from now on it is corrected by amendments.",
+                )
+            }
+            Effect::Amend {
+                code,
+                by,
+                reason,
+                edits,
+            } => {
+                s.amend(&code, &by, &reason, &edits)?;
+                changed(code, "Amendment recorded; the first record stays on file.")
+            }
+        })
+    }
+
+    fn load(&self, name: &str) -> Action {
+        let found = self
+            .store
+            .recipes()
+            .map(|all| all.into_iter().find(|r| r.name == name));
+        match found {
+            Ok(Some(summary)) => {
+                let label = PathBuf::from(format!("{name} (database)"));
+                match parse_recipe(&label, &summary.latest_text) {
+                    Ok(recipe) => Action::RecipeLoaded {
+                        recipe,
+                        source: RecipeSource::Database {
+                            name: summary.name,
+                            version: summary.latest_version,
+                            text: summary.latest_text,
+                        },
+                    },
+                    Err(e) => Action::Failed(format!("{e}")),
+                }
+            }
+            Ok(None) => Action::Failed(format!("there is no recipe named `{name}`")),
+            Err(e) => Action::Failed(format!("{e}")),
+        }
+    }
+}
+
+fn changed(code: String, message: &str) -> Vec<Action> {
+    vec![Action::BatchChanged {
+        message: format!("{code}: {message}"),
+        code,
+    }]
+}
+
+fn loaded_file(path: &Path, recipe: Recipe, text: String) -> Action {
+    Action::RecipeLoaded {
+        recipe,
+        source: RecipeSource::File {
+            path: path.to_path_buf(),
+            original: Some(text),
+        },
+    }
+}
+
+fn save_file(path: &Path, original: Option<&str>, recipe: Recipe) -> anyhow::Result<Action> {
+    let out = file_edit::rewrite(path, original, &recipe);
+    let tmp = path.with_extension("toml.saving");
+    std::fs::write(&tmp, &out.text)
+        .with_context(|| format!("could not write {}; the file is unchanged", tmp.display()))?;
+    std::fs::rename(&tmp, path).with_context(|| {
+        format!(
+            "could not replace {}; the file is unchanged",
+            path.display()
+        )
+    })?;
+    let how = if out.kept_layout {
+        "comments and layout kept"
+    } else {
+        "written afresh"
+    };
+    Ok(Action::Saved {
+        source: RecipeSource::File {
+            path: path.to_path_buf(),
+            original: Some(out.text),
+        },
+        recipe,
+        message: format!("Saved {} ({how}).", path.display()),
+    })
+}
+
+fn save_version(store: &mut Store, recipe: Recipe) -> anyhow::Result<Action> {
+    let text = recipe_to_toml(&recipe);
+    let v = store.save_recipe_version(&recipe.name, &text)?;
+    Ok(Action::Saved {
+        message: format!(
+            "Saved {} as version {} in the database.",
+            v.recipe, v.version
+        ),
+        source: RecipeSource::Database {
+            name: v.recipe,
+            version: v.version,
+            text: v.text,
+        },
+        recipe,
+    })
+}
+
+fn load_page(store: &Store, query: BatchQuery) -> anyhow::Result<BatchPage> {
+    let since = match &query.since {
+        Some(day) => Some(
+            chrono::NaiveDate::parse_from_str(day, "%Y-%m-%d")
+                .with_context(|| format!("`{day}` is not a date"))?
+                .and_hms_opt(0, 0, 0)
+                .map(|t| t.and_utc())
+                .context("not a time")?,
+        ),
+        None => None,
+    };
+    let filter = BatchFilter {
+        recipe: query.recipe.clone(),
+        since,
+        until: None,
+        search: (!query.text.trim().is_empty()).then(|| query.text.clone()),
+        limit: query.limit + 1,
+        after: query.before.clone(),
+    };
+    let mut rows: Vec<_> = store
+        .list_batches(&filter)?
+        .iter()
+        .map(convert::row)
+        .collect();
+    let more = rows.len() > query.limit;
+    rows.truncate(query.limit);
+    Ok(BatchPage { query, rows, more })
+}
+
+fn start_batch(store: &mut Store, request: BatchRequest) -> anyhow::Result<Action> {
+    let text = request
+        .recipe_text
+        .clone()
+        .unwrap_or_else(|| recipe_to_toml(&request.recipe));
+    let lots: Vec<(String, String)> = request
+        .lots
+        .iter()
+        .enumerate()
+        .filter(|(_, lot)| !lot.trim().is_empty())
+        .map(|(k, lot)| ((k + 1).to_string(), lot.trim().to_string()))
+        .collect();
+    let note = (!request.note.trim().is_empty()).then_some(request.note.as_str());
+    let new = plan_batch(&Plan {
+        recipe: &request.recipe,
+        recipe_text: &text,
+        size: BatchSize::Grams(request.size_g),
+        operator: &request.operator,
+        lots: &lots,
+        note,
+        made_at: chrono::Utc::now(),
+    })?;
+    let batch = store.new_batch(&new)?;
+    Ok(Action::BatchChanged {
+        message: format!(
+            "Recorded batch {} of {} (version {}).",
+            batch.code, batch.recipe.recipe, batch.recipe.version
+        ),
+        code: batch.code,
+    })
+}

@@ -1,0 +1,277 @@
+//! Saving a recipe back to its TOML file while keeping the user's comments,
+//! spacing and key order (toml_edit): only the values that changed are
+//! rewritten, each keeping the comment beside it, and an amount keeps the unit
+//! the file gave it (g, kg, ml or l). A file that does not parse as TOML, or an
+//! edit that would not read back as the same recipe, falls back to a freshly
+//! written file, and the caller is told so.
+
+use std::path::Path;
+
+use toml_edit::{ArrayOfTables, DocumentMut, Item, Table, Value};
+
+use crate::model::{Amount, Line, Recipe};
+use crate::recipe_file::{parse_recipe, recipe_to_toml};
+
+/// The new text of a recipe file, and whether comments and layout were kept.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Rewritten {
+    /// The file's new text.
+    pub text: String,
+    /// False when the file had to be written afresh.
+    pub kept_layout: bool,
+}
+
+/// The text to write for `recipe`, editing `original` in place when there is one.
+pub fn rewrite(path: &Path, original: Option<&str>, recipe: &Recipe) -> Rewritten {
+    let fresh = || Rewritten {
+        text: recipe_to_toml(recipe),
+        kept_layout: false,
+    };
+    let Some(original) = original else {
+        return fresh();
+    };
+    let Ok(mut doc) = original.parse::<DocumentMut>() else {
+        return fresh();
+    };
+    let Ok(before) = parse_recipe(path, original) else {
+        return fresh();
+    };
+    edit(&mut doc, &before, recipe);
+    let text = doc.to_string();
+    match parse_recipe(path, &text) {
+        Ok(back) if same_recipe(&back, recipe) => Rewritten {
+            text,
+            kept_layout: true,
+        },
+        _ => fresh(),
+    }
+}
+
+/// Whether two recipes agree in everything saved, amounts to a microgram.
+fn same_recipe(a: &Recipe, b: &Recipe) -> bool {
+    let close = |x: &Amount, y: &Amount| match (x, y) {
+        (Amount::Grams(p), Amount::Grams(q)) | (Amount::Millilitres(p), Amount::Millilitres(q)) => {
+            (p - q).abs() <= 1e-6 * p.abs().max(1.0)
+        }
+        _ => false,
+    };
+    a.name == b.name
+        && a.style == b.style
+        && a.notes == b.notes
+        && a.serving_target == b.serving_target
+        && a.solutes == b.solutes
+        && a.ingredients == b.ingredients
+        && a.lines.len() == b.lines.len()
+        && a.lines
+            .iter()
+            .zip(&b.lines)
+            .all(|(x, y)| x.ingredient == y.ingredient && close(&x.amount, &y.amount))
+}
+
+/// Sets a key to a new value, keeping the comment and spacing of the old one.
+fn set(table: &mut Table, key: &str, mut value: Value) {
+    if let Some(old) = table.get(key).and_then(Item::as_value) {
+        *value.decor_mut() = old.decor().clone();
+    }
+    table.insert(key, Item::Value(value));
+}
+
+/// A number as TOML: an integer when it is whole, else rounded to 0.001.
+fn number(x: f64) -> Value {
+    let rounded = (x * 1000.0).round() / 1000.0;
+    if rounded.fract() == 0.0 && rounded.abs() < 1e15 {
+        Value::from(rounded as i64)
+    } else {
+        Value::from(rounded)
+    }
+}
+
+const AMOUNT_KEYS: [&str; 4] = ["g", "kg", "ml", "l"];
+
+fn write_amount(table: &mut Table, amount: Amount) {
+    let old_key = AMOUNT_KEYS.into_iter().find(|k| table.contains_key(k));
+    let (key, value) = match (amount, old_key) {
+        (Amount::Grams(g), Some("kg")) => ("kg", g / 1000.0),
+        (Amount::Grams(g), _) => ("g", g),
+        (Amount::Millilitres(ml), Some("l")) => ("l", ml / 1000.0),
+        (Amount::Millilitres(ml), _) => ("ml", ml),
+    };
+    match old_key {
+        Some(old) if old == key => set(table, key, number(value)),
+        Some(old) => {
+            let decor = table
+                .get(old)
+                .and_then(Item::as_value)
+                .map(|v| v.decor().clone());
+            table.remove(old);
+            let mut v = number(value);
+            if let Some(d) = decor {
+                *v.decor_mut() = d;
+            }
+            table.insert(key, Item::Value(v));
+        }
+        None => set(table, key, number(value)),
+    }
+}
+
+fn write_line(table: &mut Table, line: &Line) {
+    let same = table.get("ingredient").and_then(Item::as_str) == Some(line.ingredient.as_str());
+    if !same {
+        set(table, "ingredient", Value::from(line.ingredient.as_str()));
+    }
+    write_amount(table, line.amount);
+}
+
+fn edit(doc: &mut DocumentMut, before: &Recipe, recipe: &Recipe) {
+    let root = doc.as_table_mut();
+    if before.name != recipe.name {
+        set(root, "name", Value::from(recipe.name.as_str()));
+    }
+    if before.style != recipe.style {
+        set(root, "style", Value::from(recipe.style.as_str()));
+    }
+    if before.notes != recipe.notes {
+        if recipe.notes.is_empty() {
+            root.remove("notes");
+        } else {
+            set(root, "notes", Value::from(recipe.notes.as_str()));
+        }
+    }
+    if before.serving_target != recipe.serving_target {
+        match recipe.serving_target {
+            Some(t) => set(root, "serving_target", number(t)),
+            None => {
+                root.remove("serving_target");
+            }
+        }
+    }
+    if before.lines != recipe.lines {
+        edit_lines(root, recipe);
+    }
+    if before.solutes != recipe.solutes || before.ingredients != recipe.ingredients {
+        replace_own_items(root, recipe);
+    }
+}
+
+fn edit_lines(root: &mut Table, recipe: &Recipe) {
+    let Some(lines) = root.get_mut("line").and_then(Item::as_array_of_tables_mut) else {
+        let mut lines = ArrayOfTables::new();
+        for line in &recipe.lines {
+            let mut t = Table::new();
+            write_line(&mut t, line);
+            lines.push(t);
+        }
+        root.insert("line", Item::ArrayOfTables(lines));
+        return;
+    };
+    for (k, line) in recipe.lines.iter().enumerate() {
+        match lines.get_mut(k) {
+            Some(table) => write_line(table, line),
+            None => {
+                let mut t = Table::new();
+                write_line(&mut t, line);
+                lines.push(t);
+            }
+        }
+    }
+    while lines.len() > recipe.lines.len() {
+        lines.remove(lines.len() - 1);
+    }
+}
+
+/// The user's own solutes and ingredients are few and rarely commented: when
+/// they change, their sections are written afresh.
+fn replace_own_items(root: &mut Table, recipe: &Recipe) {
+    let Ok(fresh) = recipe_to_toml(recipe).parse::<DocumentMut>() else {
+        return;
+    };
+    for key in ["solute", "ingredient"] {
+        match fresh.get(key) {
+            Some(item) => {
+                root.insert(key, item.clone());
+            }
+            None => {
+                root.remove(key);
+            }
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const FILE: &str = r#"# The Quay Kitchen: a test base.
+name = "Quay test"   # the house name
+style = "gelato"
+
+[[line]]
+ingredient = "whole-milk"
+kg = 0.6   # from the morning delivery
+
+[[line]]
+ingredient = "sucrose"
+g = 150
+"#;
+
+    fn path() -> &'static Path {
+        Path::new("quay-test.toml")
+    }
+
+    #[test]
+    fn comments_and_units_survive_an_amount_change() {
+        let mut recipe = match parse_recipe(path(), FILE) {
+            Ok(r) => r,
+            Err(e) => panic!("test file: {e}"),
+        };
+        recipe.lines[0].amount = Amount::Grams(650.0);
+        recipe.lines[1].amount = Amount::Grams(160.5);
+        let out = rewrite(path(), Some(FILE), &recipe);
+        assert!(out.kept_layout);
+        assert!(out.text.contains("# The Quay Kitchen: a test base."));
+        assert!(
+            out.text.contains("kg = 0.65   # from the morning delivery"),
+            "{}",
+            out.text
+        );
+        assert!(out.text.contains("g = 160.5"));
+        assert!(out.text.contains("# the house name"));
+    }
+
+    #[test]
+    fn lines_added_and_removed_read_back_the_same() {
+        let mut recipe = match parse_recipe(path(), FILE) {
+            Ok(r) => r,
+            Err(e) => panic!("test file: {e}"),
+        };
+        recipe.lines.remove(0);
+        recipe.lines.push(Line {
+            ingredient: "heavy-cream".into(),
+            amount: Amount::Millilitres(200.0),
+        });
+        recipe.name = "Quay test, lighter".into();
+        let out = rewrite(path(), Some(FILE), &recipe);
+        assert!(out.kept_layout);
+        let back = match parse_recipe(path(), &out.text) {
+            Ok(r) => r,
+            Err(e) => panic!("rewritten file: {e}\n{}", out.text),
+        };
+        assert_eq!(back.lines, recipe.lines);
+        assert_eq!(back.name, "Quay test, lighter");
+        assert!(out.text.contains("# the house name"));
+    }
+
+    #[test]
+    fn a_broken_file_is_written_afresh() {
+        let recipe = match parse_recipe(path(), FILE) {
+            Ok(r) => r,
+            Err(e) => panic!("test file: {e}"),
+        };
+        let out = rewrite(path(), Some("name = [unclosed"), &recipe);
+        assert!(!out.kept_layout);
+        assert_eq!(
+            parse_recipe(path(), &out.text).map(|r| r.lines),
+            Ok(recipe.lines)
+        );
+    }
+}

@@ -1,0 +1,225 @@
+//! End-to-end runs of the real `gelu` binary in a pseudo-terminal: keys are
+//! typed, the parsed screen (vt100) is read, and on exit the terminal must be
+//! restored (main screen back, cursor shown).
+
+use std::io::{Read, Write};
+use std::sync::{Arc, Mutex};
+use std::time::{Duration, Instant};
+
+use portable_pty::{CommandBuilder, PtySize, native_pty_system};
+
+/// Longest wait for the screen to show something (generous: machines are shared).
+const PATIENCE: Duration = Duration::from_secs(30);
+
+struct Session {
+    parser: Arc<Mutex<vt100::Parser>>,
+    writer: Box<dyn Write + Send>,
+    child: Box<dyn portable_pty::Child + Send + Sync>,
+    _master: Box<dyn portable_pty::MasterPty + Send>,
+}
+
+impl Session {
+    fn start(db: &std::path::Path, cols: u16, rows: u16) -> Session {
+        let pty = native_pty_system();
+        let pair = match pty.openpty(PtySize {
+            rows,
+            cols,
+            pixel_width: 0,
+            pixel_height: 0,
+        }) {
+            Ok(p) => p,
+            Err(e) => panic!("openpty: {e}"),
+        };
+        let mut cmd = CommandBuilder::new(env!("CARGO_BIN_EXE_gelu"));
+        cmd.arg("--db");
+        cmd.arg(db);
+        cmd.env("TERM", "xterm-256color");
+        cmd.env("NO_COLOR", "1");
+        cmd.env_remove("GELU_DB");
+        let child = match pair.slave.spawn_command(cmd) {
+            Ok(c) => c,
+            Err(e) => panic!("spawn: {e}"),
+        };
+        drop(pair.slave);
+        let mut reader = match pair.master.try_clone_reader() {
+            Ok(r) => r,
+            Err(e) => panic!("reader: {e}"),
+        };
+        let writer = match pair.master.take_writer() {
+            Ok(w) => w,
+            Err(e) => panic!("writer: {e}"),
+        };
+        let parser = Arc::new(Mutex::new(vt100::Parser::new(rows, cols, 0)));
+        let sink = Arc::clone(&parser);
+        std::thread::spawn(move || {
+            let mut buf = [0u8; 8192];
+            while let Ok(n) = reader.read(&mut buf) {
+                if n == 0 {
+                    break;
+                }
+                if let Ok(mut p) = sink.lock() {
+                    p.process(&buf[..n]);
+                }
+            }
+        });
+        Session {
+            parser,
+            writer,
+            child,
+            _master: pair.master,
+        }
+    }
+
+    fn screen(&self) -> String {
+        match self.parser.lock() {
+            Ok(p) => p.screen().contents(),
+            Err(e) => panic!("parser lock: {e}"),
+        }
+    }
+
+    fn keys(&mut self, bytes: &str) {
+        if let Err(e) = self.writer.write_all(bytes.as_bytes()) {
+            panic!("write keys: {e}");
+        }
+        let _ = self.writer.flush();
+        // One key at a time lets the workspace redraw between them, as a person would.
+        std::thread::sleep(Duration::from_millis(30));
+    }
+
+    fn type_slowly(&mut self, text: &str) {
+        for c in text.chars() {
+            self.keys(&c.to_string());
+        }
+    }
+
+    fn wait_for(&self, what: impl Fn(&str) -> bool, label: &str) -> String {
+        let start = Instant::now();
+        loop {
+            let screen = self.screen();
+            if what(&screen) {
+                return screen;
+            }
+            if start.elapsed() > PATIENCE {
+                panic!("waited for {label}; the screen shows:\n{screen}");
+            }
+            std::thread::sleep(Duration::from_millis(50));
+        }
+    }
+
+    fn wait_exit(&mut self) {
+        let start = Instant::now();
+        loop {
+            match self.child.try_wait() {
+                Ok(Some(status)) => {
+                    assert!(status.success(), "gelu exited with {status:?}");
+                    return;
+                }
+                Ok(None) if start.elapsed() < PATIENCE => {
+                    std::thread::sleep(Duration::from_millis(50))
+                }
+                Ok(None) => panic!("gelu did not exit; screen:\n{}", self.screen()),
+                Err(e) => panic!("wait: {e}"),
+            }
+        }
+    }
+
+    fn restored(&self) -> (bool, bool) {
+        // Give the reader thread a moment to take in the last bytes.
+        std::thread::sleep(Duration::from_millis(200));
+        match self.parser.lock() {
+            Ok(p) => (p.screen().alternate_screen(), p.screen().hide_cursor()),
+            Err(e) => panic!("parser lock: {e}"),
+        }
+    }
+}
+
+/// The freezing point text on the recipe screen, e.g. "-2.8 °C".
+fn freezing_point(screen: &str) -> Option<String> {
+    let line = screen.lines().find(|l| l.contains("Freezing point"))?;
+    let after = line.split("Freezing point").nth(1)?;
+    let value = after.split('│').next()?.trim();
+    (!value.is_empty()).then(|| value.to_string())
+}
+
+const ENTER: &str = "\r";
+const ESC: &str = "\x1b";
+const TAB: &str = "\t";
+
+#[test]
+fn adding_sugar_changes_the_freezing_point_and_a_batch_lands_in_the_log() {
+    let dir = match tempfile::tempdir() {
+        Ok(d) => d,
+        Err(e) => panic!("tempdir: {e}"),
+    };
+    let db = dir.path().join("log.db");
+    let mut s = Session::start(&db, 120, 40);
+    let first = s.wait_for(|t| freezing_point(t).is_some(), "the recipe screen");
+    let before = freezing_point(&first);
+    assert!(first.contains("Key figures"));
+
+    s.keys("a");
+    s.wait_for(|t| t.contains("Add a line"), "the picker");
+    s.type_slowly("sucrose");
+    s.keys(ENTER);
+    s.wait_for(|t| t.contains("Amount of Sucrose"), "the amount prompt");
+    s.type_slowly("250");
+    s.keys(ENTER);
+    let after = s.wait_for(
+        |t| freezing_point(t).is_some() && freezing_point(t) != before,
+        "the freezing point to change",
+    );
+    assert!(
+        after.contains("Sucrose"),
+        "the new line is on screen:\n{after}"
+    );
+
+    // Record a batch of it: size as proposed, an operator, no lots.
+    s.keys("b");
+    s.wait_for(|t| t.contains("New batch of"), "the batch form");
+    s.keys(TAB);
+    s.type_slowly("RW");
+    s.keys(ENTER);
+    let detail = s.wait_for(
+        |t| t.contains("Recorded batch B-"),
+        "the batch to be recorded",
+    );
+    let code = detail
+        .split("Recorded batch ")
+        .nth(1)
+        .and_then(|rest| rest.split_whitespace().next())
+        .map(str::to_string);
+    let Some(code) = code else {
+        panic!("no batch code on screen:\n{detail}");
+    };
+    s.keys(ESC);
+    s.wait_for(
+        |t| t.contains("Batch log, newest first") && t.contains(&code),
+        "the batch in the list",
+    );
+
+    // Quit: the recipe has unsaved changes, so gelu asks first.
+    s.keys("q");
+    s.wait_for(|t| t.contains("unsaved changes"), "the quit question");
+    s.keys("y");
+    s.wait_exit();
+    let (alternate, cursor_hidden) = s.restored();
+    assert!(!alternate, "the alternate screen was left");
+    assert!(!cursor_hidden, "the cursor is shown again");
+}
+
+#[test]
+fn a_small_terminal_is_told_the_size_needed_and_q_still_quits() {
+    let dir = match tempfile::tempdir() {
+        Ok(d) => d,
+        Err(e) => panic!("tempdir: {e}"),
+    };
+    let mut s = Session::start(&dir.path().join("small.db"), 60, 20);
+    s.wait_for(
+        |t| t.contains("at least") && t.contains("80 columns"),
+        "the size notice",
+    );
+    s.keys("q");
+    s.wait_exit();
+    let (alternate, cursor_hidden) = s.restored();
+    assert!(!alternate && !cursor_hidden);
+}
