@@ -478,7 +478,7 @@ pub fn submit(state: &mut State, form: &Form) -> Result<Vec<Effect>, String> {
             state.ingredients.list = CatalogList::Ingredients;
             state.tell(format!("Saved your ingredient {name}."));
             finish(state);
-            return Ok(vec![effect]);
+            Ok(vec![effect])
         }
         FormPurpose::Solute(own) => {
             let solute = solute_from(form)?;
