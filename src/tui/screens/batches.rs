@@ -113,11 +113,11 @@ fn prefetch(state: &mut State) -> Vec<Effect> {
     if !b.more || b.loading || b.cursor + PREFETCH_ROWS < b.rows.len() {
         return Vec::new();
     }
-    let Some(last) = b.rows.last() else {
+    let Some(cursor) = b.rows.last().and_then(|last| last.cursor.clone()) else {
         return Vec::new();
     };
     let mut query = b.query.clone();
-    query.before = last.cursor.clone();
+    query.before = Some(cursor);
     b.loading = true;
     vec![Effect::LoadBatches(query)]
 }
