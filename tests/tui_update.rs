@@ -19,7 +19,11 @@ fn freezing_point(state: &gelu::tui::State) -> f64 {
 }
 
 fn total_g(state: &gelu::tui::State) -> f64 {
-    state.recipe.analysis.as_ref().map_or(f64::NAN, |a| a.mass_g)
+    state
+        .recipe
+        .analysis
+        .as_ref()
+        .map_or(f64::NAN, |a| a.mass_g)
 }
 
 fn prompt_error(state: &gelu::tui::State) -> Option<String> {
@@ -48,7 +52,9 @@ fn adding_a_line_through_the_picker_lowers_the_freezing_point() {
     }));
     let picked = picker.items[0].key.clone();
     cmd(&mut s, Command::Confirm);
-    assert!(matches!(&s.overlay, Some(Overlay::Prompt(p)) if p.purpose == PromptPurpose::NewLineAmount(picked.clone())));
+    assert!(
+        matches!(&s.overlay, Some(Overlay::Prompt(p)) if p.purpose == PromptPurpose::NewLineAmount(picked.clone()))
+    );
     type_text(&mut s, "80");
     let effects = cmd(&mut s, Command::Confirm);
     assert!(effects.is_empty());
@@ -160,7 +166,10 @@ fn undo_and_redo_walk_the_history() {
     assert_eq!(s.recipe.recipe, original);
     assert!(!s.recipe.is_dirty());
     cmd(&mut s, Command::Undo);
-    assert_eq!(s.message.as_ref().map(|m| m.text.as_str()), Some("Nothing to undo."));
+    assert_eq!(
+        s.message.as_ref().map(|m| m.text.as_str()),
+        Some("Nothing to undo.")
+    );
     cmd(&mut s, Command::Redo);
     cmd(&mut s, Command::Redo);
     assert_eq!(s.recipe.recipe, after_two);
@@ -177,7 +186,12 @@ fn undo_and_redo_walk_the_history() {
 #[test]
 fn the_serving_target_of_the_recipe_drives_the_serving_temperature() {
     let mut s = loaded_state();
-    let at_70 = s.recipe.analysis.as_ref().ok().and_then(|a| a.serving_temp_c);
+    let at_70 = s
+        .recipe
+        .analysis
+        .as_ref()
+        .ok()
+        .and_then(|a| a.serving_temp_c);
     cmd(&mut s, Command::SetServingTarget);
     type_text(&mut s, "60");
     cmd(&mut s, Command::Confirm);
@@ -197,9 +211,13 @@ fn save_goes_where_the_recipe_came_from() {
     let mut s = loaded_state();
     // A new recipe asks for a name, then saves as a new recipe.
     assert!(cmd(&mut s, Command::Save).is_empty());
-    assert!(matches!(&s.overlay, Some(Overlay::Prompt(p)) if p.purpose == PromptPurpose::SaveAsName));
+    assert!(
+        matches!(&s.overlay, Some(Overlay::Prompt(p)) if p.purpose == PromptPurpose::SaveAsName)
+    );
     let effects = cmd(&mut s, Command::Confirm);
-    assert!(matches!(&effects[..], [Effect::SaveNewRecipe(r)] if r.name == "Tide Mill fior di latte"));
+    assert!(
+        matches!(&effects[..], [Effect::SaveNewRecipe(r)] if r.name == "Tide Mill fior di latte")
+    );
     // Once saved in the database, Save makes a new version there.
     let recipe = s.recipe.recipe.clone();
     update(
@@ -217,14 +235,18 @@ fn save_goes_where_the_recipe_came_from() {
     assert!(!s.recipe.is_dirty());
     cmd(&mut s, Command::DeleteLine);
     let effects = cmd(&mut s, Command::Save);
-    assert!(matches!(&effects[..], [Effect::SaveVersion { name, recipe }] if name == "Tide Mill fior di latte" && recipe.lines.len() == 5));
+    assert!(
+        matches!(&effects[..], [Effect::SaveVersion { name, recipe }] if name == "Tide Mill fior di latte" && recipe.lines.len() == 5)
+    );
     // From a file, Save writes the file back with its original text.
     s.recipe.source = RecipeSource::File {
         path: "tide.toml".into(),
         original: Some("name = \"x\"".into()),
     };
     let effects = cmd(&mut s, Command::Save);
-    assert!(matches!(&effects[..], [Effect::SaveFile { path, original: Some(_), .. }] if path.ends_with("tide.toml")));
+    assert!(
+        matches!(&effects[..], [Effect::SaveFile { path, original: Some(_), .. }] if path.ends_with("tide.toml"))
+    );
 }
 
 #[test]
@@ -237,7 +259,9 @@ fn save_as_new_renames_and_asks_the_store() {
     assert!(prompt_error(&s).is_some());
     type_text(&mut s, "Tide Mill, half sugar");
     let effects = cmd(&mut s, Command::Confirm);
-    assert!(matches!(&effects[..], [Effect::SaveNewRecipe(r)] if r.name == "Tide Mill, half sugar"));
+    assert!(
+        matches!(&effects[..], [Effect::SaveNewRecipe(r)] if r.name == "Tide Mill, half sugar")
+    );
 }
 
 #[test]
@@ -275,7 +299,10 @@ fn quitting_asks_first_only_with_unsaved_changes() {
     assert_eq!(cmd(&mut s, Command::Quit), vec![Effect::Quit]);
     cmd(&mut s, Command::DeleteLine);
     assert!(cmd(&mut s, Command::Quit).is_empty());
-    assert!(matches!(s.overlay, Some(Overlay::Confirm(Question::QuitUnsaved))));
+    assert!(matches!(
+        s.overlay,
+        Some(Overlay::Confirm(Question::QuitUnsaved))
+    ));
     assert!(cmd(&mut s, Command::No).is_empty());
     assert!(s.overlay.is_none());
     cmd(&mut s, Command::Quit);
@@ -288,14 +315,20 @@ fn help_and_warnings_open_and_close() {
     cmd(&mut s, Command::Help);
     assert!(matches!(
         s.overlay,
-        Some(Overlay::Reader(ReaderKind::Help(gelu::tui::keymap::Context::Recipe), 0))
+        Some(Overlay::Reader(
+            ReaderKind::Help(gelu::tui::keymap::Context::Recipe),
+            0
+        ))
     ));
     cmd(&mut s, Command::Down);
     assert!(matches!(s.overlay, Some(Overlay::Reader(_, 1))));
     cmd(&mut s, Command::Cancel);
     assert!(s.overlay.is_none());
     cmd(&mut s, Command::ShowWarnings);
-    assert!(matches!(s.overlay, Some(Overlay::Reader(ReaderKind::Warnings, 0))));
+    assert!(matches!(
+        s.overlay,
+        Some(Overlay::Reader(ReaderKind::Warnings, 0))
+    ));
 }
 
 #[test]
@@ -372,8 +405,15 @@ fn an_own_ingredient_is_checked_field_by_field_and_must_add_up_to_100() {
         ],
     );
     let problems = form_problems(&s);
-    assert!(problems.iter().any(|(l, _)| l.starts_with("Id")), "{problems:?}");
-    assert!(problems.iter().any(|(l, p)| l == "Category" && p.contains("dairy")));
+    assert!(
+        problems.iter().any(|(l, _)| l.starts_with("Id")),
+        "{problems:?}"
+    );
+    assert!(
+        problems
+            .iter()
+            .any(|(l, p)| l == "Category" && p.contains("dairy"))
+    );
     let effects = cmd(&mut s, Command::Confirm);
     assert!(effects.is_empty());
     assert!(s.own.ingredients.is_empty());
@@ -388,7 +428,11 @@ fn an_own_ingredient_is_checked_field_by_field_and_must_add_up_to_100() {
     let Some(Overlay::Form(f)) = &s.overlay else {
         panic!("the form stays open while the total is wrong");
     };
-    assert!(f.summary.as_deref().is_some_and(|t| t.contains("93.3")), "{:?}", f.summary);
+    assert!(
+        f.summary.as_deref().is_some_and(|t| t.contains("93.3")),
+        "{:?}",
+        f.summary
+    );
     // Water 23.7 makes 100.
     let Some(Overlay::Form(f)) = &mut s.overlay else {
         panic!("form expected");
@@ -397,7 +441,9 @@ fn an_own_ingredient_is_checked_field_by_field_and_must_add_up_to_100() {
     fill(&mut s, &["23.7"]);
     let effects = cmd(&mut s, Command::Confirm);
     assert!(s.overlay.is_none(), "saved");
-    assert!(matches!(&effects[..], [Effect::SaveOwnIngredient { ingredient, .. }] if ingredient.id == "pier-honey"));
+    assert!(
+        matches!(&effects[..], [Effect::SaveOwnIngredient { ingredient, .. }] if ingredient.id == "pier-honey")
+    );
     assert_eq!(s.own.ingredients.len(), 1);
     assert!(s.ingredients.matches.contains(&"pier-honey".to_string()));
     // It can now go into the recipe, and the recipe carries its definition.
@@ -416,7 +462,18 @@ fn an_own_solute_needs_a_positive_molar_mass() {
     let mut s = loaded_state();
     cmd(&mut s, Command::ShowIngredients);
     cmd(&mut s, Command::NewSolute);
-    fill(&mut s, &["harbour-salt-blend", "Harbour salt blend", "heavy", "2", "", "", "own test"]);
+    fill(
+        &mut s,
+        &[
+            "harbour-salt-blend",
+            "Harbour salt blend",
+            "heavy",
+            "2",
+            "",
+            "",
+            "own test",
+        ],
+    );
     let problems = form_problems(&s);
     assert_eq!(problems.len(), 1, "{problems:?}");
     assert!(problems[0].0.starts_with("Molar mass"));
@@ -444,7 +501,10 @@ fn editing_a_built_in_item_makes_an_own_copy() {
         panic!("form expected");
     };
     assert_eq!(f.fields[0].input.value(), "my-heavy-cream");
-    assert!(f.fields.iter().all(|x| x.problem.is_none()), "a copy starts valid");
+    assert!(
+        f.fields.iter().all(|x| x.problem.is_none()),
+        "a copy starts valid"
+    );
 }
 
 #[test]
@@ -458,7 +518,10 @@ fn adding_from_the_ingredients_screen_lands_in_the_recipe() {
     type_text(&mut s, "50");
     cmd(&mut s, Command::Confirm);
     assert_eq!(s.screen, Screen::Recipe);
-    assert_eq!(s.recipe.recipe.lines.last().map(|l| l.ingredient.as_str()), Some("lemon-juice"));
+    assert_eq!(
+        s.recipe.recipe.lines.last().map(|l| l.ingredient.as_str()),
+        Some("lemon-juice")
+    );
 }
 
 // ---- batch log --------------------------------------------------------------
@@ -502,7 +565,9 @@ fn the_batch_log_loads_on_first_visit_and_drops_stale_pages() {
     // The user filters before the page arrives: the old page is dropped.
     let stale = q.clone();
     let effects = cmd(&mut s, Command::FilterRecipe);
-    assert!(matches!(&effects[..], [Effect::LoadBatches(q)] if q.recipe.as_deref() == Some("Tide Mill fior di latte")));
+    assert!(
+        matches!(&effects[..], [Effect::LoadBatches(q)] if q.recipe.as_deref() == Some("Tide Mill fior di latte"))
+    );
     update(
         &mut s,
         Action::BatchesPage(gelu::tui::state::BatchPage {
@@ -541,13 +606,17 @@ fn date_and_text_filters_are_checked_then_reload() {
     cmd(&mut s, Command::ClearField);
     type_text(&mut s, "2026-05-01");
     let effects = cmd(&mut s, Command::Confirm);
-    assert!(matches!(&effects[..], [Effect::LoadBatches(q)] if q.since.as_deref() == Some("2026-05-01")));
+    assert!(
+        matches!(&effects[..], [Effect::LoadBatches(q)] if q.since.as_deref() == Some("2026-05-01"))
+    );
     cmd(&mut s, Command::Search);
     type_text(&mut s, "lot 44");
     let effects = cmd(&mut s, Command::Confirm);
     assert!(matches!(&effects[..], [Effect::LoadBatches(q)] if q.text == "lot 44"));
     let effects = cmd(&mut s, Command::ClearFilter);
-    assert!(matches!(&effects[..], [Effect::LoadBatches(q)] if q.text.is_empty() && q.since.is_none()));
+    assert!(
+        matches!(&effects[..], [Effect::LoadBatches(q)] if q.text.is_empty() && q.since.is_none())
+    );
 }
 
 #[test]
@@ -570,7 +639,10 @@ fn starting_a_batch_sends_size_operator_and_lots() {
     assert_eq!(req.operator, "RW");
     assert_eq!(req.lots[0], "MILK-0112");
     assert_eq!(req.lots.len(), 6);
-    assert!(req.recipe_text.is_none(), "a recipe never saved has no stored text");
+    assert!(
+        req.recipe_text.is_none(),
+        "a recipe never saved has no stored text"
+    );
 }
 
 #[test]
@@ -604,11 +676,15 @@ fn notes_measurements_and_sign_off_need_an_operator() {
     cmd(&mut s, Command::ClearField);
     type_text(&mut s, "freezing-point-c");
     let effects = cmd(&mut s, Command::Confirm);
-    assert!(matches!(&effects[..], [Effect::AddMeasurement { kind, value, .. }] if *kind == gelu::store::MeasurementKind::FreezingPointC && (*value + 2.9).abs() < 1e-9));
+    assert!(
+        matches!(&effects[..], [Effect::AddMeasurement { kind, value, .. }] if *kind == gelu::store::MeasurementKind::FreezingPointC && (*value + 2.9).abs() < 1e-9)
+    );
     cmd(&mut s, Command::Amend);
     assert!(s.overlay.is_none(), "a draft is not amended");
     cmd(&mut s, Command::Finalize);
-    assert!(matches!(&s.overlay, Some(Overlay::Confirm(Question::Finalize(c))) if c == "B-20261201-0001"));
+    assert!(
+        matches!(&s.overlay, Some(Overlay::Confirm(Question::Finalize(c))) if c == "B-20261201-0001")
+    );
     assert_eq!(
         cmd(&mut s, Command::Yes),
         vec![Effect::Finalize {
@@ -633,10 +709,16 @@ fn an_amendment_needs_a_reason_and_a_correction() {
     let Some(Overlay::Form(f)) = &s.overlay else {
         panic!("form expected");
     };
-    assert!(f.summary.as_deref().is_some_and(|t| t.contains("at least one correction")));
+    assert!(
+        f.summary
+            .as_deref()
+            .is_some_and(|t| t.contains("at least one correction"))
+    );
     fill(&mut s, &["2", "CREAM-7781"]);
     let effects = cmd(&mut s, Command::Confirm);
-    assert!(matches!(&effects[..], [Effect::Amend { reason, edits, .. }] if reason == "Lot misread at weighing" && edits == &vec![gelu::store::Edit::Lot { line: "2".into(), lot: "CREAM-7781".into() }]));
+    assert!(
+        matches!(&effects[..], [Effect::Amend { reason, edits, .. }] if reason == "Lot misread at weighing" && edits == &vec![gelu::store::Edit::Lot { line: "2".into(), lot: "CREAM-7781".into() }])
+    );
 }
 
 #[test]
@@ -649,8 +731,13 @@ fn a_batch_change_reloads_the_log_and_the_detail() {
             message: "B-9: Note added.".into(),
         },
     );
-    assert!(matches!(&effects[..], [Effect::LoadBatches(q), Effect::LoadBatchDetail(c)] if q.before.is_none() && c == "B-9"));
-    assert_eq!(s.message.as_ref().map(|m| m.text.as_str()), Some("B-9: Note added."));
+    assert!(
+        matches!(&effects[..], [Effect::LoadBatches(q), Effect::LoadBatchDetail(c)] if q.before.is_none() && c == "B-9")
+    );
+    assert_eq!(
+        s.message.as_ref().map(|m| m.text.as_str()),
+        Some("B-9: Note added.")
+    );
 }
 
 // ---- settings -----------------------------------------------------------------
@@ -661,7 +748,9 @@ fn settings_toggle_units_and_check_temperatures() {
     cmd(&mut s, Command::ShowSettings);
     let effects = cmd(&mut s, Command::Toggle);
     assert_eq!(s.settings.temp_unit, TempUnit::Fahrenheit);
-    assert!(matches!(&effects[..], [Effect::SaveSettings(x)] if x.temp_unit == TempUnit::Fahrenheit));
+    assert!(
+        matches!(&effects[..], [Effect::SaveSettings(x)] if x.temp_unit == TempUnit::Fahrenheit)
+    );
     // The cabinet temperature is typed in °F now: 5 °F is -15 °C.
     let at = SettingField::ALL
         .iter()

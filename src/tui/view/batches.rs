@@ -160,13 +160,13 @@ fn render_detail(state: &State, d: &BatchDetailView, theme: Theme, frame: &mut F
     );
     let t = state.settings.temp_unit;
     let mut lines = vec![Line::from(Span::styled(
-        format!("{:<18}{:>12}{:>12}", "", "predicted", "measured"),
+        format!("{:<16}{:>10}{:>10}", "", "predicted", "measured"),
         theme.title(),
     ))];
     for c in &d.comparisons {
         let show = |v: Option<f64>| v.map_or("-".to_string(), |x| measured_text(c.kind, x, t));
         lines.push(Line::from(format!(
-            "{:<18}{:>12}{:>12}",
+            "{:<16}{:>10}{:>10}",
             kind_label(c.kind),
             show(c.predicted),
             show(c.measured)

@@ -16,7 +16,7 @@ use super::theme::{CURSOR_MARK, Theme};
 /// Draws the ingredients screen.
 pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
     let [list, detail] =
-        Layout::horizontal([Constraint::Percentage(45), Constraint::Percentage(55)]).areas(area);
+        Layout::horizontal([Constraint::Percentage(50), Constraint::Percentage(50)]).areas(area);
     render_list(state, theme, frame, list);
     render_detail(state, theme, frame, detail);
 }

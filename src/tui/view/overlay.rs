@@ -163,14 +163,24 @@ fn form(f: &Form, theme: Theme, frame: &mut Frame, area: Rect) {
         let y = inner.y + row as u16 * per;
         let focused = k == f.focus;
         let mark = if focused { CURSOR_MARK } else { "  " };
-        let label = fit(&field.label, label_w.saturating_sub(3) as usize);
+        // With one row per field, a problem is flagged beside the label and
+        // spelt out on the bottom line when the field is in focus.
+        let flag = if per == 1 && field.problem.is_some() {
+            "! "
+        } else {
+            ""
+        };
+        let label = fit(
+            &field.label,
+            label_w.saturating_sub(3 + flag.len() as u16) as usize,
+        );
         let style = if focused {
             theme.selected()
         } else {
             theme.title()
         };
         frame.render_widget(
-            Paragraph::new(Span::styled(format!("{mark}{label}"), style)),
+            Paragraph::new(Span::styled(format!("{mark}{flag}{label}"), style)),
             Rect {
                 y,
                 height: 1,
@@ -185,26 +195,43 @@ fn form(f: &Form, theme: Theme, frame: &mut Frame, area: Rect) {
             height: 1,
         };
         text_field(&field.input, frame, value_area, focused);
-        if let Some(problem) = &field.problem {
+        if let Some(problem) = &field.problem
+            && per == 2
+        {
             let text = format!("{PROBLEM_MARK}{problem}");
-            let problem_area = if per == 2 {
+            frame.render_widget(
+                Paragraph::new(Span::styled(
+                    fit(&text, value_area.width as usize),
+                    theme.problem(),
+                )),
                 Rect {
                     y: y + 1,
                     ..value_area
-                }
-            } else {
-                value_area
-            };
-            if per == 2 || !focused {
-                frame.render_widget(
-                    Paragraph::new(Span::styled(
-                        fit(&text, problem_area.width as usize),
-                        theme.problem(),
-                    )),
-                    problem_area,
-                );
-            }
+                },
+            );
         }
+    }
+    let focused_problem = f
+        .fields
+        .get(f.focus)
+        .and_then(|field| field.problem.as_ref())
+        .filter(|_| per == 1);
+    if let Some(problem) = focused_problem
+        && inner.height > 0
+    {
+        let y = inner.y + inner.height - 1;
+        frame.render_widget(
+            Paragraph::new(Span::styled(
+                fit(&format!("{PROBLEM_MARK}{problem}"), inner.width as usize),
+                theme.problem(),
+            )),
+            Rect {
+                y,
+                height: 1,
+                ..inner
+            },
+        );
+        return;
     }
     if let Some(summary) = &f.summary
         && inner.height > 0
