@@ -99,12 +99,8 @@ fn browsing_modes_fall_back_to_the_global_keys_and_text_modes_do_not() {
     assert_eq!(keymap::lookup(Context::Form, Key::ch('?')), None);
 }
 
-fn help_text(context: Context) -> String {
-    keymap_help_state(context)
-}
-
 /// Draws the help overlay of `context` on a tall terminal and returns the text.
-fn keymap_help_state(context: Context) -> String {
+fn help_text(context: Context) -> String {
     let mut state = gelu::tui::State::new(false);
     state.overlay = Some(gelu::tui::state::Overlay::Reader(
         gelu::tui::state::ReaderKind::Help(context),

@@ -210,5 +210,4 @@ fn a_problem_shows_in_the_status_line_with_a_symbol() {
     );
     let text = draw(&s, 80, 24);
     assert!(text.contains("!! the batch log is locked"));
-    let _ = Overlay::Confirm(gelu::tui::state::Question::QuitUnsaved);
 }

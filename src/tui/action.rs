@@ -64,6 +64,7 @@ commands! {
     Redo => "redo", "Redo the change last undone";
     Save => "save", "Save: back to its file, or as a new version in the database";
     SaveAsNew => "save-as-new", "Save as a new recipe in the database under a new name";
+    SaveVersion => "save-version", "Save as the next version of the recipe of this name in the database";
     OpenRecipe => "open-recipe", "Open a recipe from the database";
     OpenFile => "open-file", "Open a recipe from a TOML file";
     ShowWarnings => "warnings", "Read every warning and caution in full";

@@ -289,6 +289,7 @@ pub const KEYMAP: &[Binding] = &[
     bind(RECIPE, Key::ctrl('y'), Command::Redo, None),
     bind(RECIPE, Key::ctrl('s'), Command::Save, Some("save")),
     bind(RECIPE, Key::ch('S'), Command::SaveAsNew, None),
+    bind(RECIPE, Key::ch('v'), Command::SaveVersion, None),
     bind(RECIPE, Key::ch('o'), Command::OpenRecipe, None),
     bind(RECIPE, Key::ch('O'), Command::OpenFile, None),
     bind(

@@ -64,7 +64,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
             prompt(
                 state,
                 PromptPurpose::BatchSearch,
-                "Search batches (code, recipe, operator, lot, note)".into(),
+                "Search batches: words in notes, lots and amendment reasons".into(),
                 text,
             );
         }

@@ -104,6 +104,12 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
                 name,
             );
         }
+        Command::SaveVersion => {
+            return vec![Effect::SaveVersion {
+                name: state.recipe.recipe.name.clone(),
+                recipe: state.recipe.recipe.clone(),
+            }];
+        }
         Command::OpenRecipe => return vec![Effect::ListRecipes],
         Command::OpenFile => prompt(
             state,
