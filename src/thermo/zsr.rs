@@ -42,13 +42,19 @@ pub struct FreezingTable {
 impl FreezingTable {
     /// Tabulates `binary` on the grid (about 600 inversions of the binary model).
     pub fn new(binary: &Binary) -> Self {
-        let mut molality = Vec::with_capacity(GRID_LEN);
-        let mut guess = None;
+        let mut molality: Vec<f64> = Vec::with_capacity(GRID_LEN);
         for k in 0..GRID_LEN {
             let temp_c = -(k as f64) * GRID_STEP_K;
-            let m = binary.molality_at(ln_ice_activity(temp_c), guess);
-            molality.push(m);
-            guess = Some(m).filter(|m| m.is_finite() && *m > 0.0);
+            // Extrapolate the last two points: the secant solver then needs two or three steps.
+            let guess = match molality.as_slice() {
+                [.., a, b] => Some(2.0 * b - a),
+                [b] => Some(*b),
+                [] => None,
+            };
+            molality.push(binary.molality_at(
+                ln_ice_activity(temp_c),
+                guess.filter(|g| g.is_finite() && *g > 0.0),
+            ));
         }
         let data_limit_c = binary
             .validated_molality()
@@ -180,17 +186,58 @@ impl Serum<'_> {
                 hi = mid
             }
         }
-        // Within one cell the interpolated curve is smooth and monotone: bisect.
+        // Within one cell the interpolated curve is smooth and monotone: the
+        // Illinois variant of regula falsi converges in a handful of steps.
         let (mut warm, mut cold) = (-(lo as f64) * GRID_STEP_K, -(hi as f64) * GRID_STEP_K);
-        for _ in 0..40 {
-            let mid = 0.5 * (warm + cold);
-            if self.zsr_water_g(mid) > water_g {
-                warm = mid
+        let (mut f_warm, mut f_cold) = (
+            self.zsr_water_g(warm) - water_g,
+            self.zsr_water_g(cold) - water_g,
+        );
+        if !f_warm.is_finite() {
+            // At 0 °C the unfrozen water is unbounded: start just inside the cell.
+            warm = -1e-9;
+            f_warm = self.zsr_water_g(warm) - water_g;
+        }
+        let mut side = 0i8;
+        for _ in 0..60 {
+            if (warm - cold).abs() < 1e-10 || f_cold == 0.0 {
+                break;
+            }
+            let t = if f_warm.is_finite() {
+                cold - f_cold * (cold - warm) / (f_cold - f_warm)
             } else {
-                cold = mid
+                0.5 * (warm + cold)
+            };
+            let t = if t.is_finite() && t < warm && t > cold {
+                t
+            } else {
+                0.5 * (warm + cold)
+            };
+            let f = self.zsr_water_g(t) - water_g;
+            if f > 0.0 {
+                warm = t;
+                f_warm = f;
+                if side == 1 {
+                    f_cold *= 0.5;
+                }
+                side = 1;
+            } else {
+                cold = t;
+                f_cold = f;
+                if side == -1 {
+                    f_warm *= 0.5;
+                }
+                side = -1;
+            }
+            if f.abs() < 1e-12 * water_g {
+                return Some(t);
             }
         }
-        Some(0.5 * (warm + cold))
+        Some(if f_cold.abs() < f_warm.abs() {
+            cold
+        } else {
+            warm
+        })
     }
 
     /// Initial freezing point (°C): where the first ice forms. 0 for pure
