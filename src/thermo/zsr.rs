@@ -318,3 +318,76 @@ impl Serum<'_> {
         if total > 0.0 { beyond / total } else { 0.0 }
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::thermo::binary::WaterModel;
+
+    fn sucrose_like() -> Binary {
+        Binary {
+            dissociation: 1.0,
+            model: WaterModel::Ideal { norrish_k: 6.47 },
+        }
+    }
+
+    fn serum<'a>(table: &'a FreezingTable, parts: &[(f64, f64)], water_g: f64) -> Serum<'a> {
+        Serum {
+            water_g,
+            solutes: parts
+                .iter()
+                .map(|(moles, mass_g)| SerumSolute {
+                    table,
+                    moles: *moles,
+                    mass_g: *mass_g,
+                    glass_forming: true,
+                    dissociation: 1.0,
+                })
+                .collect(),
+        }
+    }
+
+    #[test]
+    fn one_solute_freezes_where_its_binary_solution_does() {
+        let b = sucrose_like();
+        let table = FreezingTable::new(&b);
+        let s = serum(&table, &[(0.5, 171.15)], 1000.0);
+        let binary_fp = crate::thermo::ice::temp_c_for_ln_activity(b.ln_aw(0.5));
+        assert!((s.freezing_point_c().unwrap() - binary_fp).abs() < 1e-4);
+    }
+
+    #[test]
+    fn splitting_a_solute_in_two_changes_nothing() {
+        // ZSR is exact for two portions of the same solute: the mix is the binary
+        // solution at the summed molality.
+        let table = FreezingTable::new(&sucrose_like());
+        let whole = serum(&table, &[(0.8, 273.8)], 1000.0);
+        let split = serum(&table, &[(0.3, 102.7), (0.5, 171.1)], 1000.0);
+        assert!(
+            (whole.freezing_point_c().unwrap() - split.freezing_point_c().unwrap()).abs() < 1e-9
+        );
+        for t in [-2.0, -5.0, -15.0] {
+            assert!((whole.frozen_fraction(t) - split.frozen_fraction(t)).abs() < 1e-12);
+        }
+    }
+
+    #[test]
+    fn freezing_stops_at_the_glass_limit() {
+        let table = FreezingTable::new(&sucrose_like());
+        let s = serum(&table, &[(1.0, 342.3)], 1000.0);
+        // At -60 °C at most 1 - 0.25 * 342.3 / 1000 of the water can be ice.
+        let most = 1.0 - GLASS_WATER_PER_SOLUTE_G * 342.3 / 1000.0;
+        assert!((s.frozen_fraction(GRID_MIN_C) - most).abs() < 1e-12);
+        let limit = s.glass_limit_temp_c().unwrap();
+        assert!(s.frozen_fraction(limit - 1.0) <= most + 1e-12);
+        assert!(s.frozen_fraction(limit + 1.0) < most);
+    }
+
+    #[test]
+    fn serving_temperature_is_where_the_share_is_reached() {
+        let table = FreezingTable::new(&sucrose_like());
+        let s = serum(&table, &[(0.6, 205.4)], 1000.0);
+        let t = s.temp_for_frozen_fraction(0.7).unwrap();
+        assert!((s.frozen_fraction(t) - 0.7).abs() < 1e-6);
+    }
+}
