@@ -193,3 +193,29 @@ pub fn analysis_json(a: &Analysis) -> serde_json::Value {
     // Serialising plain numbers, strings and maps cannot fail.
     serde_json::to_value(doc(a)).unwrap_or(serde_json::Value::Null)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn fixed_formatting_reads_back_as_the_rounded_number() {
+        for (x, places) in [
+            (0.0, 5),
+            (1.0, 5),
+            (0.123456789, 5),
+            (-12.5, 3),
+            (-0.0004, 3),
+            (0.7, 5),
+            (-39.9999999, 3),
+        ] {
+            let mut s = String::new();
+            push_fixed(&mut s, x, places);
+            let back: f64 = s.parse().unwrap();
+            assert_eq!(back, round(x, places as i32), "{x} -> {s}");
+        }
+        let mut s = String::new();
+        push_fixed(&mut s, f64::NAN, 3);
+        assert_eq!(s, "null");
+    }
+}
