@@ -16,7 +16,7 @@ use crate::model::{Ingredient, Solute};
 use crate::thermo::binary::Binary;
 use crate::thermo::zsr::FreezingTable;
 
-pub use spec::{CatalogFileError, parse_catalog};
+pub use spec::{CatalogFileError, IngredientTable, parse_catalog};
 pub use suggest::{did_you_mean as suggest_text, nearest};
 
 /// Tolerance on a composition's total (mass %): 100 ± this.

@@ -121,22 +121,9 @@ impl Serum<'_> {
         if !(temp_c < 0.0) {
             return self.water_g;
         }
-        let mut unfrozen = 0.0;
-        let mut glass = 0.0;
-        for s in &self.solutes {
-            let m = s.table.molality_at(temp_c);
-            if s.moles > 0.0 {
-                unfrozen += if m > 0.0 {
-                    1000.0 * s.moles / m
-                } else {
-                    f64::INFINITY
-                };
-            }
-            if s.glass_forming {
-                glass += GLASS_WATER_PER_SOLUTE_G * s.mass_g;
-            }
-        }
-        unfrozen.max(glass).min(self.water_g)
+        self.zsr_water_g(temp_c)
+            .max(self.glass_water_g())
+            .min(self.water_g)
     }
 
     /// Share of the mix's water that is ice at `temp_c` (°C), 0..1.
@@ -145,6 +132,15 @@ impl Serum<'_> {
             return 0.0;
         }
         (1.0 - self.unfrozen_water_g(temp_c) / self.water_g).clamp(0.0, 1.0)
+    }
+
+    /// Water (g) the glass-forming solutes keep unfrozen at maximal freeze concentration.
+    pub fn glass_water_g(&self) -> f64 {
+        self.solutes
+            .iter()
+            .filter(|s| s.glass_forming)
+            .map(|s| GLASS_WATER_PER_SOLUTE_G * s.mass_g)
+            .sum()
     }
 
     /// Unfrozen water by ZSR alone (g), without the glass limit or the cap at
@@ -260,12 +256,7 @@ impl Serum<'_> {
             return None;
         }
         let target_g = (1.0 - frozen_fraction) * self.water_g;
-        let glass: f64 = self
-            .solutes
-            .iter()
-            .filter(|s| s.glass_forming)
-            .map(|s| GLASS_WATER_PER_SOLUTE_G * s.mass_g)
-            .sum();
+        let glass = self.glass_water_g();
         if glass > target_g {
             return None;
         }
@@ -287,12 +278,7 @@ impl Serum<'_> {
     /// Temperature (°C) at which freezing stops at the glass limit, if it does
     /// above [`GRID_MIN_C`].
     pub fn glass_limit_temp_c(&self) -> Option<f64> {
-        let glass: f64 = self
-            .solutes
-            .iter()
-            .filter(|s| s.glass_forming)
-            .map(|s| GLASS_WATER_PER_SOLUTE_G * s.mass_g)
-            .sum();
+        let glass = self.glass_water_g();
         if glass <= 0.0 || glass >= self.water_g {
             return None;
         }
