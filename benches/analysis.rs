@@ -9,7 +9,7 @@ use criterion::{Criterion, criterion_group, criterion_main};
 use gelu::analysis::{Options, analyze};
 use gelu::catalog::Catalog;
 use gelu::recipe_file::{parse_recipe, read_recipe};
-use gelu::report::json::analysis_json;
+use gelu::report::json::write_analysis_json;
 
 /// A 15-line custard-and-fruit mix using a spread of solute models.
 const FIFTEEN_LINES: &str = r#"
@@ -92,7 +92,7 @@ fn bench_report_files(c: &mut Criterion) {
                 let (recipe, _) = read_recipe(p).expect("reads");
                 let a =
                     analyze(&recipe, Catalog::builtin(), &Options::default()).expect("analyses");
-                serde_json::to_writer(&mut out, &analysis_json(&a)).expect("json");
+                write_analysis_json(&a, &mut out).expect("json");
                 out.push(b'\n');
             }
             out

@@ -200,3 +200,38 @@ fn extreme_mixes_analyse_without_nan() {
     });
     assert_eq!(sugar.freezing_point_c, None, "no water, no freezing point");
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(300))]
+
+    #[test]
+    fn parsing_never_panics_on_damaged_files(pick in 0usize..100, cuts in prop::collection::vec((0usize..4000, 0usize..6, any::<char>()), 1..6)) {
+        // Damage a sample file (delete a few characters, or insert any character)
+        // and parse it: an error is fine, a panic is not; an error points inside the file.
+        let (name, text) = gelu::samples::SAMPLE_RECIPES[pick % gelu::samples::SAMPLE_RECIPES.len()];
+        let mut chars: Vec<char> = text.chars().collect();
+        for (at, len, c) in cuts {
+            let at = at % (chars.len() + 1);
+            if len == 0 {
+                chars.insert(at, c);
+            } else {
+                let end = (at + len).min(chars.len());
+                chars.drain(at..end);
+            }
+        }
+        let damaged: String = chars.into_iter().collect();
+        match gelu::recipe_file::parse_recipe(std::path::Path::new(name), &damaged) {
+            Err(e) => prop_assert!(e.line >= 1 && e.line <= damaged.lines().count().max(1) + 1, "{e}"),
+            Ok(r) => prop_assert!(all_finite(&run(&r))),
+        }
+    }
+
+    #[test]
+    fn parsing_never_panics_on_any_text(text in "\\PC{0,200}") {
+        // Any text either parses into a recipe with a name, or fails with a position.
+        match gelu::recipe_file::parse_recipe(std::path::Path::new("any.toml"), &text) {
+            Ok(r) => prop_assert!(!r.name.is_empty()),
+            Err(e) => prop_assert!(e.line >= 1 && e.column >= 1),
+        }
+    }
+}

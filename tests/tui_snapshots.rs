@@ -5,9 +5,7 @@
 
 mod tui_common;
 
-use gelu::tui::state::{
-    BatchDetailView, BatchPage, BatchRow, Comparison, MeasurementRow, Overlay, State,
-};
+use gelu::tui::state::{BatchDetailView, BatchPage, BatchRow, Comparison, MeasurementRow, State};
 use gelu::tui::{Action, Command, update};
 use ratatui::Terminal;
 use ratatui::backend::TestBackend;
