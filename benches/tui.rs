@@ -83,7 +83,7 @@ fn key_to_frame(c: &mut Criterion) {
     c.bench_function("typed_digit_to_frame_120x40", |b| {
         b.iter(|| {
             typed += 1;
-            let key = if typed % 2 == 0 {
+            let key = if typed.is_multiple_of(2) {
                 KeyEvent::new(KeyCode::Backspace, KeyModifiers::NONE)
             } else {
                 KeyEvent::new(KeyCode::Char('5'), KeyModifiers::NONE)

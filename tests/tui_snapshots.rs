@@ -154,7 +154,10 @@ fn no_size_from_1x1_to_200x60_panics() {
         for height in 1..=60u16 {
             // Every size for the recipe screen; a coarser grid for the others.
             for (k, (_, state)) in scenes.iter().enumerate() {
-                if k == 0 || (width % 9 == 0 && height % 5 == 0) || (width, height) == (80, 24) {
+                if k == 0
+                    || (width.is_multiple_of(9) && height.is_multiple_of(5))
+                    || (width, height) == (80, 24)
+                {
                     let backend = TestBackend::new(width, height);
                     let mut terminal = match Terminal::new(backend) {
                         Ok(t) => t,
