@@ -58,6 +58,11 @@ fn render_lines(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
             ])
         })
         .collect();
+    // Pounds and ounces ("12 lb 13.5 oz") need more room than grams.
+    let amount_w = match unit {
+        super::super::state::MassUnit::Grams => 10,
+        super::super::state::MassUnit::Imperial => 13,
+    };
     let total = analysis.map_or("-".to_string(), |a| fmt_mass(a.mass_g, unit));
     let dirty = if r.is_dirty() { " *" } else { "" };
     let title = format!(" {}{dirty} ", r.recipe.name);
@@ -65,16 +70,27 @@ fn render_lines(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
         rows,
         [
             Constraint::Min(12),
-            Constraint::Length(12),
-            Constraint::Length(7),
+            Constraint::Length(amount_w),
+            Constraint::Length(6),
         ],
     )
-    .header(Row::new(vec!["  Ingredient", "      Amount", "% mix"]).style(theme.title()))
+    .header(
+        Row::new(vec![
+            Cell::from("  Ingredient"),
+            Cell::from(Line::from("Amount").right_aligned()),
+            Cell::from(Line::from("% mix").right_aligned()),
+        ])
+        .style(theme.title()),
+    )
     .row_highlight_style(theme.selected())
     .block(
         Block::bordered()
             .title(Span::styled(title, theme.title()))
-            .title_bottom(format!(" {} lines, total {total} ", r.recipe.lines.len())),
+            .title_bottom(format!(
+                " {}, {} lines, {total} ",
+                r.recipe.style.as_str(),
+                r.recipe.lines.len()
+            )),
     );
     let mut table_state = TableState::default();
     if !r.recipe.lines.is_empty() {
