@@ -20,6 +20,15 @@ struct Session {
 
 impl Session {
     fn start(db: &std::path::Path, cols: u16, rows: u16) -> Session {
+        Session::start_with(db, &[], cols, rows)
+    }
+
+    fn start_with(
+        db: &std::path::Path,
+        args: &[&std::path::Path],
+        cols: u16,
+        rows: u16,
+    ) -> Session {
         let pty = native_pty_system();
         let pair = match pty.openpty(PtySize {
             rows,
@@ -33,6 +42,9 @@ impl Session {
         let mut cmd = CommandBuilder::new(env!("CARGO_BIN_EXE_gelu"));
         cmd.arg("--db");
         cmd.arg(db);
+        for a in args {
+            cmd.arg(a);
+        }
         cmd.env("TERM", "xterm-256color");
         cmd.env("NO_COLOR", "1");
         cmd.env_remove("GELU_DB");
@@ -220,6 +232,45 @@ fn a_small_terminal_is_told_the_size_needed_and_q_still_quits() {
     );
     s.keys("q");
     s.wait_exit();
+    let (alternate, cursor_hidden) = s.restored();
+    assert!(!alternate && !cursor_hidden);
+}
+
+#[test]
+fn gelu_edit_saves_back_to_the_file_keeping_its_comments() {
+    let dir = match tempfile::tempdir() {
+        Ok(d) => d,
+        Err(e) => panic!("tempdir: {e}"),
+    };
+    let file = dir.path().join("breakwater-sorbet.toml");
+    let text = "# Breakwater kiosk, summer trial\nname = \"Breakwater sorbet\"\nstyle = \"sorbet\"\n\n[[line]]\ningredient = \"water\"\ng = 550 # from the filtered tap\n\n[[line]]\ningredient = \"sucrose\"\ng = 250\n\n[[line]]\ningredient = \"lemon-juice\"\ng = 200\n";
+    if let Err(e) = std::fs::write(&file, text) {
+        panic!("{e}");
+    }
+    let edit = std::path::Path::new("edit");
+    let mut s = Session::start_with(&dir.path().join("log.db"), &[edit, &file], 100, 30);
+    s.wait_for(
+        |t| t.contains("Breakwater sorbet") && t.contains("Freezing point"),
+        "the file in the editor",
+    );
+    s.keys("\r");
+    s.wait_for(|t| t.contains("Amount of Water"), "the amount prompt");
+    s.keys("\x15"); // Ctrl-U clears the field
+    s.type_slowly("600");
+    s.keys("\r");
+    s.keys("\x13"); // Ctrl-S saves back to the file
+    s.wait_for(
+        |t| t.contains("comments and layout kept"),
+        "the save message",
+    );
+    s.keys("q");
+    s.wait_exit();
+    let saved = std::fs::read_to_string(&file).unwrap_or_default();
+    assert!(
+        saved.starts_with("# Breakwater kiosk, summer trial"),
+        "{saved}"
+    );
+    assert!(saved.contains("g = 600 # from the filtered tap"), "{saved}");
     let (alternate, cursor_hidden) = s.restored();
     assert!(!alternate && !cursor_hidden);
 }

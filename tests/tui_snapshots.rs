@@ -110,6 +110,10 @@ fn scenes() -> Vec<(&'static str, State)> {
     let mut quit = loaded_state();
     cmd(&mut quit, Command::DeleteLine);
     cmd(&mut quit, Command::Quit);
+    let mut imperial = loaded_state();
+    imperial.settings.temp_unit = gelu::tui::state::TempUnit::Fahrenheit;
+    imperial.settings.mass_unit = gelu::tui::state::MassUnit::Imperial;
+    imperial.reanalyse();
     let mut warnings = loaded_state();
     cmd(&mut warnings, Command::ShowWarnings);
     vec![
@@ -126,6 +130,7 @@ fn scenes() -> Vec<(&'static str, State)> {
         ("ingredient_form", form),
         ("quit_question", quit),
         ("warnings", warnings),
+        ("recipe_fahrenheit_ounces", imperial),
     ]
 }
 
