@@ -8,7 +8,7 @@
 use tui_input::{Input, InputRequest};
 
 use super::action::{Action, Command, Effect};
-use super::screens::{batches, ingredients, recipe, settings};
+use super::screens::{batches, ingredients, own_items, recipe, settings};
 use super::state::{Overlay, PickerPurpose, Question, ReaderKind, Screen, State};
 
 /// Applies one action to the state and returns the effects it asks for.
@@ -345,7 +345,7 @@ fn accept_prompt(state: &mut State, prompt: super::state::Prompt) -> Vec<Effect>
 fn check_form(state: &State, form: &mut super::state::Form) {
     use super::state::FormPurpose as F;
     match &form.purpose {
-        F::Ingredient(_) | F::Solute(_) => ingredients::check_form(state, form),
+        F::Ingredient(_) | F::Solute(_) => own_items::check_form(state, form),
         F::Batch | F::Measurement(_) | F::Amend(_) => batches::check_form(state, form),
     }
 }
@@ -354,7 +354,7 @@ fn submit_form(state: &mut State, mut form: super::state::Form) -> Vec<Effect> {
     use super::state::FormPurpose as F;
     check_form(state, &mut form);
     let outcome = match &form.purpose {
-        F::Ingredient(_) | F::Solute(_) => ingredients::submit(state, &form),
+        F::Ingredient(_) | F::Solute(_) => own_items::submit(state, &form),
         F::Batch | F::Measurement(_) | F::Amend(_) => batches::submit(state, &form),
     };
     match outcome {

@@ -3,6 +3,7 @@
 
 pub mod batches;
 pub mod ingredients;
+pub mod own_items;
 pub mod recipe;
 pub mod settings;
 

@@ -3,17 +3,19 @@
 
 use std::path::PathBuf;
 
-use tui_input::Input;
-
 use crate::analysis::{
     self, Analysis, DEFAULT_CABINET_TEMP_C, DEFAULT_FREEZER_TEMP_C, DEFAULT_SERVING_TARGET, Options,
 };
 use crate::catalog::Catalog;
 use crate::model::{Ingredient, Recipe, Solute};
-use crate::store::{BatchCursor, MeasurementKind};
 
-use super::action::RecipeEntry;
 use super::keymap::Context;
+
+mod batches;
+mod overlay;
+
+pub use batches::*;
+pub use overlay::*;
 
 /// The screens, in tab order.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
@@ -190,128 +192,6 @@ pub struct OwnLibrary {
     pub ingredients: Vec<Ingredient>,
 }
 
-/// What the batch log shows.
-#[derive(Debug, Clone, PartialEq, Default)]
-pub struct BatchQuery {
-    /// Only batches of this recipe (its name in the database).
-    pub recipe: Option<String>,
-    /// Only batches made on or after this date (YYYY-MM-DD).
-    pub since: Option<String>,
-    /// Only batches whose text contains this.
-    pub text: String,
-    /// Keyset cursor: only batches older than this row; `None` = the newest page.
-    pub before: Option<BatchCursor>,
-    /// Rows per page.
-    pub limit: usize,
-}
-
-/// One row of the batch log.
-#[derive(Debug, Clone, PartialEq)]
-pub struct BatchRow {
-    /// Batch code, unique.
-    pub code: String,
-    /// When it was made (ISO 8601, UTC).
-    pub made_at: String,
-    /// Recipe name.
-    pub recipe_name: String,
-    /// Recipe version.
-    pub version: u32,
-    /// Batch size (g).
-    pub size_g: f64,
-    /// Who made it.
-    pub operator: String,
-    /// Draft, final or amended.
-    pub status: String,
-    /// Whether it is finalised (final or amended).
-    pub finalized: bool,
-    /// Where the row sits in the log, to fetch the rows after it.
-    pub cursor: Option<BatchCursor>,
-}
-
-/// A page of the batch log.
-#[derive(Debug, Clone, PartialEq)]
-pub struct BatchPage {
-    /// The query it answers.
-    pub query: BatchQuery,
-    /// Rows, newest first.
-    pub rows: Vec<BatchRow>,
-    /// Whether older rows exist.
-    pub more: bool,
-}
-
-/// A figure predicted for a batch, with what was measured.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Comparison {
-    /// What.
-    pub kind: MeasurementKind,
-    /// The prediction, in the kind's unit.
-    pub predicted: Option<f64>,
-    /// The latest measurement, in the kind's unit.
-    pub measured: Option<f64>,
-}
-
-/// One measurement of a batch.
-#[derive(Debug, Clone, PartialEq)]
-pub struct MeasurementRow {
-    /// When (UTC, to the minute).
-    pub at: String,
-    /// What.
-    pub kind: MeasurementKind,
-    /// The value, in the kind's unit.
-    pub value: f64,
-    /// Who measured.
-    pub by: String,
-}
-
-/// One batch in full.
-#[derive(Debug, Clone, PartialEq)]
-pub struct BatchDetailView {
-    /// The row.
-    pub row: BatchRow,
-    /// Lines: ingredient, planned mass (g), lot.
-    pub lines: Vec<(String, f64, String)>,
-    /// Predicted against measured.
-    pub comparisons: Vec<Comparison>,
-    /// Measurements, oldest first.
-    pub measurements: Vec<MeasurementRow>,
-    /// Notes and amendments, oldest first: when, who, text.
-    pub notes: Vec<(String, String, String)>,
-}
-
-/// A new batch to record.
-#[derive(Debug, Clone, PartialEq)]
-pub struct BatchRequest {
-    /// The recipe as in the editor (the store scales it to the size).
-    pub recipe: Recipe,
-    /// Its TOML text as stored, when the editor holds it unchanged.
-    pub recipe_text: Option<String>,
-    /// Batch size (g).
-    pub size_g: f64,
-    /// Who makes it.
-    pub operator: String,
-    /// Lot of each line, in line order (may be empty).
-    pub lots: Vec<String>,
-    /// A first note (may be empty).
-    pub note: String,
-}
-
-/// The batch log screen.
-#[derive(Debug, Clone, Default)]
-pub struct BatchesState {
-    /// The query of the rows shown (without the keyset cursor).
-    pub query: BatchQuery,
-    /// Rows loaded so far, newest first.
-    pub rows: Vec<BatchRow>,
-    /// Whether older rows exist beyond those loaded.
-    pub more: bool,
-    /// Whether a page is on its way.
-    pub loading: bool,
-    /// Row under the cursor.
-    pub cursor: usize,
-    /// The open batch.
-    pub detail: Option<BatchDetailView>,
-}
-
 /// The rows of the settings screen.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum SettingField {
@@ -351,177 +231,6 @@ impl SettingField {
             SettingField::Operator => "Operator",
         }
     }
-}
-
-/// What a one-line prompt is for.
-#[derive(Debug, Clone, PartialEq)]
-pub enum PromptPurpose {
-    /// The amount of a new line of this ingredient.
-    NewLineAmount(String),
-    /// A new amount for the line at this index.
-    LineAmount(usize),
-    /// A new total mass for the recipe.
-    ScaleTotal,
-    /// The recipe's serving target.
-    ServingTarget,
-    /// A new name for the recipe.
-    Rename,
-    /// The name to save a new recipe under.
-    SaveAsName,
-    /// A recipe file to open.
-    OpenFilePath,
-    /// Live search of the ingredients screen.
-    IngredientSearch,
-    /// Live search of the batch log.
-    BatchSearch,
-    /// The date from which batches are shown.
-    BatchSince,
-    /// A note for the batch with this code.
-    BatchNote(String),
-    /// A setting's value.
-    Setting(SettingField),
-}
-
-/// A one-line prompt.
-#[derive(Debug, Clone)]
-pub struct Prompt {
-    /// What it is for.
-    pub purpose: PromptPurpose,
-    /// The question.
-    pub title: String,
-    /// The text typed.
-    pub input: Input,
-    /// Why the text is not accepted, when it is not.
-    pub error: Option<String>,
-}
-
-/// What the picker picks.
-#[derive(Debug, Clone, PartialEq)]
-pub enum PickerPurpose {
-    /// An ingredient for a new line.
-    Ingredient,
-    /// A recipe in the database to open.
-    Recipe(Vec<RecipeEntry>),
-}
-
-/// One row the picker offers.
-#[derive(Debug, Clone, PartialEq)]
-pub struct PickItem {
-    /// The id returned when picked (ingredient id, or database id as text).
-    pub key: String,
-    /// What the user reads.
-    pub label: String,
-    /// A second column (category, version).
-    pub detail: String,
-}
-
-/// A search-as-you-type picker.
-#[derive(Debug, Clone)]
-pub struct Picker {
-    /// What it picks.
-    pub purpose: PickerPurpose,
-    /// The question.
-    pub title: String,
-    /// The search text.
-    pub query: Input,
-    /// Items matching the search, best first.
-    pub items: Vec<PickItem>,
-    /// Item under the cursor.
-    pub cursor: usize,
-}
-
-/// What a form is for.
-#[derive(Debug, Clone, PartialEq)]
-pub enum FormPurpose {
-    /// A new own ingredient, or editing the own ingredient at this index.
-    Ingredient(Option<usize>),
-    /// A new own solute, or editing the own solute at this index.
-    Solute(Option<usize>),
-    /// A new batch from the recipe in the editor.
-    Batch,
-    /// A measurement for the batch with this code.
-    Measurement(String),
-    /// An amendment of the batch with this code.
-    Amend(String),
-}
-
-/// One field of a form.
-#[derive(Debug, Clone)]
-pub struct Field {
-    /// The label.
-    pub label: String,
-    /// The text typed.
-    pub input: Input,
-    /// Why the field's text is not accepted, when it is not.
-    pub problem: Option<String>,
-}
-
-impl Field {
-    /// A field with a label and a starting value.
-    pub fn new(label: impl Into<String>, value: impl Into<String>) -> Field {
-        Field {
-            label: label.into(),
-            input: Input::new(value.into()),
-            problem: None,
-        }
-    }
-}
-
-/// A form of several fields.
-#[derive(Debug, Clone)]
-pub struct Form {
-    /// What it is for.
-    pub purpose: FormPurpose,
-    /// The title.
-    pub title: String,
-    /// The fields.
-    pub fields: Vec<Field>,
-    /// The field in focus.
-    pub focus: usize,
-    /// A line under the fields: a running total, or why the whole is refused.
-    pub summary: Option<String>,
-}
-
-/// What help or the reader shows.
-#[derive(Debug, Clone, Copy, PartialEq, Eq)]
-pub enum ReaderKind {
-    /// The keys of a mode.
-    Help(Context),
-    /// Every warning and caution of the recipe.
-    Warnings,
-}
-
-/// What a yes/no question decides.
-#[derive(Debug, Clone, PartialEq, Eq)]
-pub enum Question {
-    /// Quit despite unsaved changes.
-    QuitUnsaved,
-    /// Finalise the batch with this code.
-    Finalize(String),
-}
-
-/// Something drawn over the screen that takes the keys.
-#[derive(Debug, Clone)]
-pub enum Overlay {
-    /// A one-line prompt.
-    Prompt(Prompt),
-    /// A picker.
-    Picker(Picker),
-    /// A form.
-    Form(Form),
-    /// Help or the warnings, scrolled to a row.
-    Reader(ReaderKind, usize),
-    /// A yes/no question.
-    Confirm(Question),
-}
-
-/// A line in the status bar.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Message {
-    /// The text.
-    pub text: String,
-    /// Whether it reports a problem.
-    pub is_error: bool,
 }
 
 /// The whole workspace.

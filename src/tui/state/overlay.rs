@@ -1,0 +1,179 @@
+//! Overlays: the prompt, the picker, forms, the reader and questions, each
+//! with what it is for, plus the status-bar message.
+
+use tui_input::Input;
+
+use super::super::action::RecipeEntry;
+use super::super::keymap::Context;
+use super::SettingField;
+
+/// What a one-line prompt is for.
+#[derive(Debug, Clone, PartialEq)]
+pub enum PromptPurpose {
+    /// The amount of a new line of this ingredient.
+    NewLineAmount(String),
+    /// A new amount for the line at this index.
+    LineAmount(usize),
+    /// A new total mass for the recipe.
+    ScaleTotal,
+    /// The recipe's serving target.
+    ServingTarget,
+    /// A new name for the recipe.
+    Rename,
+    /// The name to save a new recipe under.
+    SaveAsName,
+    /// A recipe file to open.
+    OpenFilePath,
+    /// Live search of the ingredients screen.
+    IngredientSearch,
+    /// Live search of the batch log.
+    BatchSearch,
+    /// The date from which batches are shown.
+    BatchSince,
+    /// A note for the batch with this code.
+    BatchNote(String),
+    /// A setting's value.
+    Setting(SettingField),
+}
+
+/// A one-line prompt.
+#[derive(Debug, Clone)]
+pub struct Prompt {
+    /// What it is for.
+    pub purpose: PromptPurpose,
+    /// The question.
+    pub title: String,
+    /// The text typed.
+    pub input: Input,
+    /// Why the text is not accepted, when it is not.
+    pub error: Option<String>,
+}
+
+/// What the picker picks.
+#[derive(Debug, Clone, PartialEq)]
+pub enum PickerPurpose {
+    /// An ingredient for a new line.
+    Ingredient,
+    /// A recipe in the database to open.
+    Recipe(Vec<RecipeEntry>),
+}
+
+/// One row the picker offers.
+#[derive(Debug, Clone, PartialEq)]
+pub struct PickItem {
+    /// The id returned when picked (ingredient id, or database id as text).
+    pub key: String,
+    /// What the user reads.
+    pub label: String,
+    /// A second column (category, version).
+    pub detail: String,
+}
+
+/// A search-as-you-type picker.
+#[derive(Debug, Clone)]
+pub struct Picker {
+    /// What it picks.
+    pub purpose: PickerPurpose,
+    /// The question.
+    pub title: String,
+    /// The search text.
+    pub query: Input,
+    /// Items matching the search, best first.
+    pub items: Vec<PickItem>,
+    /// Item under the cursor.
+    pub cursor: usize,
+}
+
+/// What a form is for.
+#[derive(Debug, Clone, PartialEq)]
+pub enum FormPurpose {
+    /// A new own ingredient, or editing the own ingredient at this index.
+    Ingredient(Option<usize>),
+    /// A new own solute, or editing the own solute at this index.
+    Solute(Option<usize>),
+    /// A new batch from the recipe in the editor.
+    Batch,
+    /// A measurement for the batch with this code.
+    Measurement(String),
+    /// An amendment of the batch with this code.
+    Amend(String),
+}
+
+/// One field of a form.
+#[derive(Debug, Clone)]
+pub struct Field {
+    /// The label.
+    pub label: String,
+    /// The text typed.
+    pub input: Input,
+    /// Why the field's text is not accepted, when it is not.
+    pub problem: Option<String>,
+}
+
+impl Field {
+    /// A field with a label and a starting value.
+    pub fn new(label: impl Into<String>, value: impl Into<String>) -> Field {
+        Field {
+            label: label.into(),
+            input: Input::new(value.into()),
+            problem: None,
+        }
+    }
+}
+
+/// A form of several fields.
+#[derive(Debug, Clone)]
+pub struct Form {
+    /// What it is for.
+    pub purpose: FormPurpose,
+    /// The title.
+    pub title: String,
+    /// The fields.
+    pub fields: Vec<Field>,
+    /// The field in focus.
+    pub focus: usize,
+    /// A line under the fields: a running total, or why the whole is refused.
+    pub summary: Option<String>,
+}
+
+/// What help or the reader shows.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum ReaderKind {
+    /// The keys of a mode.
+    Help(Context),
+    /// Every warning and caution of the recipe.
+    Warnings,
+}
+
+/// What a yes/no question decides.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub enum Question {
+    /// Quit despite unsaved changes.
+    QuitUnsaved,
+    /// Finalise the batch with this code.
+    Finalize(String),
+}
+
+/// Something drawn over the screen that takes the keys.
+#[derive(Debug, Clone)]
+pub enum Overlay {
+    /// A one-line prompt.
+    Prompt(Prompt),
+    /// A picker.
+    Picker(Picker),
+    /// A form.
+    Form(Form),
+    /// Help or the warnings, scrolled to a row.
+    Reader(ReaderKind, usize),
+    /// A yes/no question.
+    Confirm(Question),
+}
+
+/// A line in the status bar.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Message {
+    /// The text.
+    pub text: String,
+    /// Whether it reports a problem.
+    pub is_error: bool,
+}
