@@ -20,7 +20,7 @@ struct Session {
 
 impl Session {
     fn start(db: &std::path::Path, cols: u16, rows: u16) -> Session {
-        Session::start_with(db, &[], cols, rows)
+        Session::start_with(db, &[], cols, rows, true)
     }
 
     fn start_with(
@@ -28,6 +28,7 @@ impl Session {
         args: &[&std::path::Path],
         cols: u16,
         rows: u16,
+        no_color: bool,
     ) -> Session {
         let pty = native_pty_system();
         let pair = match pty.openpty(PtySize {
@@ -46,7 +47,11 @@ impl Session {
             cmd.arg(a);
         }
         cmd.env("TERM", "xterm-256color");
-        cmd.env("NO_COLOR", "1");
+        if no_color {
+            cmd.env("NO_COLOR", "1");
+        } else {
+            cmd.env_remove("NO_COLOR");
+        }
         cmd.env_remove("GELU_DB");
         let child = match pair.slave.spawn_command(cmd) {
             Ok(c) => c,
@@ -135,6 +140,25 @@ impl Session {
         }
     }
 
+    /// How many cells of the screen have a foreground colour of their own.
+    fn coloured_cells(&self) -> usize {
+        match self.parser.lock() {
+            Ok(p) => {
+                let screen = p.screen();
+                let (rows, cols) = screen.size();
+                (0..rows)
+                    .flat_map(|r| (0..cols).map(move |c| (r, c)))
+                    .filter(|&(r, c)| {
+                        screen
+                            .cell(r, c)
+                            .is_some_and(|cell| cell.fgcolor() != vt100::Color::Default)
+                    })
+                    .count()
+            }
+            Err(e) => panic!("parser lock: {e}"),
+        }
+    }
+
     fn restored(&self) -> (bool, bool) {
         // Give the reader thread a moment to take in the last bytes.
         std::thread::sleep(Duration::from_millis(200));
@@ -168,6 +192,7 @@ fn adding_sugar_changes_the_freezing_point_and_a_batch_lands_in_the_log() {
     let first = s.wait_for(|t| freezing_point(t).is_some(), "the recipe screen");
     let before = freezing_point(&first);
     assert!(first.contains("Key figures"));
+    assert_eq!(s.coloured_cells(), 0, "NO_COLOR is set: no colour at all");
 
     s.keys("a");
     s.wait_for(|t| t.contains("Add a line"), "the picker");
@@ -248,10 +273,14 @@ fn gelu_edit_saves_back_to_the_file_keeping_its_comments() {
         panic!("{e}");
     }
     let edit = std::path::Path::new("edit");
-    let mut s = Session::start_with(&dir.path().join("log.db"), &[edit, &file], 100, 30);
+    let mut s = Session::start_with(&dir.path().join("log.db"), &[edit, &file], 100, 30, false);
     s.wait_for(
         |t| t.contains("Breakwater sorbet") && t.contains("Freezing point"),
         "the file in the editor",
+    );
+    assert!(
+        s.coloured_cells() > 0,
+        "without NO_COLOR the workspace uses colour"
     );
     s.keys("\r");
     s.wait_for(|t| t.contains("Amount of Water"), "the amount prompt");
