@@ -22,7 +22,8 @@ pub const CHART_MIN_C: f64 = -30.0;
 
 /// Draws the recipe screen.
 pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
-    let top_rows = 12.min(area.height);
+    // Ten key figures need 12 rows; a tall terminal also gets the extra ones.
+    let top_rows = if area.height >= 34 { 17 } else { 12 }.min(area.height);
     let [top, bottom] =
         Layout::vertical([Constraint::Length(top_rows), Constraint::Min(0)]).areas(area);
     let side = if area.width >= 110 { 44 } else { 36 };
@@ -160,6 +161,30 @@ fn render_figures(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
                 figure(theme, "MSNF", pct(c.msnf), width),
                 figure(theme, "Sugars", pct(c.sugars), width),
                 figure(theme, "ABV", format!("{:.1} % vol", a.abv_pct), width),
+                figure(
+                    theme,
+                    "Dilute-law freezing point",
+                    fmt_temp_opt(a.dilute_law_freezing_point_c, t),
+                    width,
+                ),
+                figure(theme, "Water", pct(c.water), width),
+                figure(theme, "Protein", pct(c.protein), width),
+                figure(
+                    theme,
+                    "Sugars per litre",
+                    format!("{:.0} g/L", a.sugar_g_per_l),
+                    width,
+                ),
+                figure(
+                    theme,
+                    "Mass, volume",
+                    format!(
+                        "{}, {:.2} L",
+                        fmt_mass(a.mass_g, state.settings.mass_unit),
+                        a.volume_ml / 1000.0
+                    ),
+                    width,
+                ),
             ]
         }
         Err(reason) => vec![Line::from(reason.clone())],
@@ -170,25 +195,31 @@ fn render_figures(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
     );
 }
 
-/// The warnings and cautions as (mark, style, text), most serious first.
+/// The warnings and cautions as (mark, style, text): problems first, then the
+/// cautions of safe practice, then advice and notes, so that when space is
+/// short what is cut is the least important.
 pub fn notices(state: &State, theme: Theme) -> Vec<(&'static str, Style, String)> {
     match &state.recipe.analysis {
         Ok(a) => {
-            let mut out: Vec<(&'static str, Style, String)> = a
-                .warnings
-                .iter()
-                .map(|w| match w.severity {
-                    Severity::Problem => (PROBLEM_MARK, theme.problem(), w.message.clone()),
-                    Severity::Advice => (ADVICE_MARK, theme.advice(), w.message.clone()),
-                    Severity::Note => (NOTE_MARK, theme.dim(), w.message.clone()),
-                })
-                .collect();
-            out.extend(
-                a.cautions
+            let of = |severity: Severity| {
+                a.warnings
                     .iter()
-                    .map(|c| (CAUTION_MARK, theme.advice(), c.clone())),
-            );
-            out
+                    .filter(move |w| w.severity == severity)
+                    .map(move |w| match severity {
+                        Severity::Problem => (PROBLEM_MARK, theme.problem(), w.message.clone()),
+                        Severity::Advice => (ADVICE_MARK, theme.advice(), w.message.clone()),
+                        Severity::Note => (NOTE_MARK, theme.dim(), w.message.clone()),
+                    })
+            };
+            let cautions = a
+                .cautions
+                .iter()
+                .map(|c| (CAUTION_MARK, theme.advice(), c.clone()));
+            of(Severity::Problem)
+                .chain(cautions)
+                .chain(of(Severity::Advice))
+                .chain(of(Severity::Note))
+                .collect()
         }
         Err(reason) if state.recipe.recipe.lines.is_empty() => {
             vec![(NOTE_MARK, theme.dim(), reason.clone())]
@@ -207,7 +238,7 @@ fn render_warnings(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
     let width = inner.width.saturating_sub(3).max(1) as usize;
     let wrapped_rows: usize = items
         .iter()
-        .map(|(_, _, text)| text.chars().count().div_ceil(width).max(1))
+        .map(|(mark, _, text)| wrapped_height(&format!("{mark}{text}"), inner.width as usize))
         .sum();
     let lines: Vec<Line> = if wrapped_rows <= inner.height as usize {
         items
@@ -249,6 +280,29 @@ fn render_warnings(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
         paragraph
     };
     frame.render_widget(paragraph, inner);
+}
+
+/// Rows a text takes when word-wrapped at `width` (greedy, as the paragraph
+/// wraps; one character narrower to stay on the safe side, so that no caution
+/// is ever cut off unseen).
+pub fn wrapped_height(text: &str, width: usize) -> usize {
+    let width = width.saturating_sub(1).max(1);
+    let mut rows = 1;
+    let mut used = 0;
+    for word in text.split_whitespace() {
+        let len = word.chars().count();
+        let need = if used == 0 { len } else { used + 1 + len };
+        if need <= width {
+            used = need;
+        } else {
+            rows += 1 + (len.saturating_sub(1)) / width;
+            used = len % width;
+            if used == 0 && len > 0 {
+                used = width;
+            }
+        }
+    }
+    rows
 }
 
 /// The marks on the chart: (label, temperature °C, marker, marker symbol).
