@@ -235,74 +235,88 @@ fn render_warnings(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
         .title_bottom(" w: read all ");
     let inner = block.inner(area);
     frame.render_widget(block, area);
-    let width = inner.width.saturating_sub(3).max(1) as usize;
-    let wrapped_rows: usize = items
+    let room = inner.height as usize;
+    let mark_w = 3;
+    let text_w = (inner.width as usize).saturating_sub(mark_w).max(1);
+    let wrapped: Vec<Vec<String>> = items
         .iter()
-        .map(|(mark, _, text)| wrapped_height(&format!("{mark}{text}"), inner.width as usize))
-        .sum();
-    let lines: Vec<Line> = if wrapped_rows <= inner.height as usize {
-        items
-            .into_iter()
-            .map(|(mark, style, text)| {
-                Line::from(vec![Span::styled(mark, style), Span::styled(text, style)])
-            })
-            .collect()
+        .map(|(_, _, t)| wrap_words(t, text_w))
+        .collect();
+    // Every notice gets a row while rows last (the last row says how many are
+    // left out); rows to spare go to the notices in order, so they read in full.
+    let shown = if items.len() > room {
+        room.saturating_sub(1)
     } else {
-        let room = inner.height as usize;
-        let shown = if items.len() > room {
-            room.saturating_sub(1)
-        } else {
-            items.len()
-        };
-        let mut lines: Vec<Line> = items
-            .iter()
-            .take(shown)
-            .map(|(mark, style, text)| {
-                Line::from(vec![
-                    Span::styled(*mark, *style),
-                    Span::styled(fit(text, width), *style),
-                ])
-            })
-            .collect();
-        if items.len() > shown {
-            lines.push(Line::from(format!(
-                "+{} more: press w",
-                items.len() - shown
-            )));
-        }
-        lines
+        items.len()
     };
-    let wrap = wrapped_rows <= inner.height as usize;
-    let paragraph = Paragraph::new(lines);
-    let paragraph = if wrap {
-        paragraph.wrap(Wrap { trim: true })
-    } else {
-        paragraph
-    };
-    frame.render_widget(paragraph, inner);
-}
-
-/// Rows a text takes when word-wrapped at `width` (greedy, as the paragraph
-/// wraps; one character narrower to stay on the safe side, so that no caution
-/// is ever cut off unseen).
-pub fn wrapped_height(text: &str, width: usize) -> usize {
-    let width = width.saturating_sub(1).max(1);
-    let mut rows = 1;
-    let mut used = 0;
-    for word in text.split_whitespace() {
-        let len = word.chars().count();
-        let need = if used == 0 { len } else { used + 1 + len };
-        if need <= width {
-            used = need;
-        } else {
-            rows += 1 + (len.saturating_sub(1)) / width;
-            used = len % width;
-            if used == 0 && len > 0 {
-                used = width;
-            }
+    let mut rows_for = vec![1usize; shown];
+    let mut spare = room.saturating_sub(shown + usize::from(shown < items.len()));
+    for (k, rows) in rows_for.iter_mut().enumerate() {
+        let extra = (wrapped[k].len() - 1).min(spare);
+        *rows += extra;
+        spare -= extra;
+    }
+    let mut lines: Vec<Line> = Vec::new();
+    for (k, (mark, style, _)) in items.iter().take(shown).enumerate() {
+        let parts = &wrapped[k];
+        for (r, part) in parts.iter().take(rows_for[k]).enumerate() {
+            let cut = r + 1 == rows_for[k] && parts.len() > rows_for[k];
+            let text = if cut {
+                fit(&format!("{part} …"), text_w)
+            } else {
+                part.clone()
+            };
+            let lead = if r == 0 { *mark } else { "   " };
+            lines.push(Line::from(vec![
+                Span::styled(lead, *style),
+                Span::styled(text, *style),
+            ]));
         }
     }
-    rows
+    if shown < items.len() {
+        lines.push(Line::from(format!(
+            "+{} more: press w",
+            items.len() - shown
+        )));
+    }
+    frame.render_widget(Paragraph::new(lines), inner);
+}
+
+/// Greedy word wrap of `text` into lines of at most `width` characters (a word
+/// longer than a line is split).
+pub fn wrap_words(text: &str, width: usize) -> Vec<String> {
+    let width = width.max(1);
+    let mut lines: Vec<String> = Vec::new();
+    let mut line = String::new();
+    for word in text.split_whitespace() {
+        let mut word: Vec<char> = word.chars().collect();
+        loop {
+            let used = line.chars().count();
+            let need = if used == 0 {
+                word.len()
+            } else {
+                used + 1 + word.len()
+            };
+            if need <= width {
+                if used > 0 {
+                    line.push(' ');
+                }
+                line.extend(word.iter());
+                break;
+            }
+            if used > 0 {
+                lines.push(std::mem::take(&mut line));
+                continue;
+            }
+            let rest = word.split_off(width);
+            lines.push(word.into_iter().collect());
+            word = rest;
+        }
+    }
+    if !line.is_empty() || lines.is_empty() {
+        lines.push(line);
+    }
+    lines
 }
 
 /// The marks on the chart: (label, temperature °C, marker, marker symbol).
@@ -389,4 +403,25 @@ fn render_chart(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
                 .labels(["0", "50", "100"]),
         );
     frame.render_widget(chart, area);
+}
+
+#[cfg(test)]
+mod tests {
+    use super::wrap_words;
+
+    #[test]
+    fn words_wrap_within_the_width_and_long_words_split() {
+        let lines = wrap_words("Pasteurise dairy and egg mixes before ageing", 12);
+        assert_eq!(
+            lines,
+            ["Pasteurise", "dairy and", "egg mixes", "before", "ageing"]
+        );
+        assert!(
+            wrap_words("abcdefghij", 4)
+                .iter()
+                .all(|l| l.chars().count() <= 4)
+        );
+        assert_eq!(wrap_words("abcdefghij", 4).concat(), "abcdefghij");
+        assert_eq!(wrap_words("", 5), [""]);
+    }
 }
