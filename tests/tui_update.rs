@@ -322,6 +322,21 @@ fn help_and_warnings_open_and_close() {
     ));
     cmd(&mut s, Command::Down);
     assert!(matches!(s.overlay, Some(Overlay::Reader(_, 1))));
+    cmd(&mut s, Command::Last);
+    let Some(Overlay::Reader(_, last)) = s.overlay else {
+        panic!("reader expected");
+    };
+    assert!(last > 10, "the recipe help is long");
+    cmd(&mut s, Command::Down);
+    assert!(
+        matches!(s.overlay, Some(Overlay::Reader(_, n)) if n == last),
+        "no scrolling past the end"
+    );
+    cmd(&mut s, Command::Up);
+    assert!(
+        matches!(s.overlay, Some(Overlay::Reader(_, n)) if n + 1 == last),
+        "Up after End moves at once"
+    );
     cmd(&mut s, Command::Cancel);
     assert!(s.overlay.is_none());
     cmd(&mut s, Command::ShowWarnings);

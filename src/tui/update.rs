@@ -129,6 +129,7 @@ fn overlay_update(state: &mut State, command: Command) -> Vec<Effect> {
     };
     match overlay {
         Overlay::Reader(kind, scroll) => {
+            let last = reader_rows(state, kind).saturating_sub(1);
             let scroll = match command {
                 Command::Cancel => return Vec::new(),
                 Command::Up => scroll.saturating_sub(1),
@@ -136,9 +137,10 @@ fn overlay_update(state: &mut State, command: Command) -> Vec<Effect> {
                 Command::PageUp => scroll.saturating_sub(super::state::PAGE_ROWS),
                 Command::PageDown => scroll + super::state::PAGE_ROWS,
                 Command::First => 0,
-                Command::Last => usize::MAX / 2,
+                Command::Last => last,
                 _ => scroll,
-            };
+            }
+            .min(last);
             state.overlay = Some(Overlay::Reader(kind, scroll));
             Vec::new()
         }
@@ -226,6 +228,33 @@ fn overlay_update(state: &mut State, command: Command) -> Vec<Effect> {
                 text_command(state, other);
                 Vec::new()
             }
+        },
+    }
+}
+
+/// About how many rows the reader's text takes: enough to bound scrolling
+/// (the view shows the last screenful at most).
+fn reader_rows(state: &State, kind: ReaderKind) -> usize {
+    match kind {
+        ReaderKind::Help(context) => {
+            let mut sections = vec![context];
+            if context.is_browsing() {
+                sections.push(super::keymap::Context::Global);
+            }
+            sections
+                .into_iter()
+                .map(|c| super::keymap::help_rows(c).len() + 3)
+                .sum()
+        }
+        ReaderKind::Warnings => match &state.recipe.analysis {
+            Ok(a) => a
+                .warnings
+                .iter()
+                .map(|w| w.message.as_str())
+                .chain(a.cautions.iter().map(String::as_str))
+                .map(|t| t.chars().count() / 40 + 2)
+                .sum(),
+            Err(_) => 2,
         },
     }
 }
