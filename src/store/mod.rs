@@ -7,7 +7,7 @@
 //! - [`migrate`]: the forward-only migrations of `schema.sql`.
 //! - [`tx`]: immediate write transactions with a bounded retry.
 //! - `recipes`, `batches`, `query`: reading and writing records.
-//! - [`jsonl`] and [`csv`]: export and import.
+//! - [`jsonl`], [`csv`] and `import`: export and import.
 //! - [`plan`]: a recipe scaled to a batch size, ready for [`Store::new_batch`].
 //!
 //! Every write is one transaction: a crash or a refused request leaves nothing half
@@ -18,12 +18,14 @@ pub mod backup;
 mod batches;
 pub mod csv;
 mod error;
+mod import;
 pub mod jsonl;
 pub mod migrate;
 pub mod open;
 pub mod plan;
 mod query;
 mod recipes;
+mod search;
 mod seed;
 pub mod tx;
 mod types;
