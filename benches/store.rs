@@ -220,6 +220,7 @@ fn on_a_million(c: &mut Criterion) {
         ("search a lot code (50 batches)", "L2-004321"),
         ("search a rare word (1,000 batches)", "cracked"),
         ("search a common word, newest 50", "glossy"),
+        ("search a common prefix, newest 50", "gloss*"),
     ] {
         c.bench_function(label, |b| {
             let store = million();

@@ -292,7 +292,13 @@ fn the_list_filters_searches_and_pages_newest_first() {
     };
     assert_eq!(search("ajar"), ["B-20261107-0001"]);
     assert_eq!(search("SUC-05"), ["B-20261105-0001"]);
-    assert_eq!(search("lemon").len(), 4, "lots LEMON-3.. match by prefix");
+    assert_eq!(
+        search("lemon").len(),
+        4,
+        "lots LEMON-3.. hold the word lemon"
+    );
+    assert!(search("lem").is_empty(), "whole words only...");
+    assert_eq!(search("lem*").len(), 4, "...unless a word ends in *");
     assert!(search("pistachio").is_empty());
     assert!(
         search("\"unbalanced AND (").is_empty(),
@@ -452,4 +458,85 @@ fn a_malformed_import_line_is_reported_and_nothing_of_it_written() {
         "nothing of a refused line is written"
     );
     assert!(other.check().unwrap().is_empty());
+}
+
+#[test]
+fn searches_with_many_matches_page_like_a_plain_filter() {
+    let (_dir, mut store) = fresh();
+    let template = store
+        .new_batch(&planned(
+            "harbour-vanilla.toml",
+            "2kg",
+            1,
+            "S-0",
+            "template",
+        ))
+        .unwrap();
+    // 3,000 batches, four in five noted "glossy": enough to take the many-matches path.
+    let list: Vec<_> = (0..3_000)
+        .map(|i| {
+            let made_at =
+                Utc.with_ymd_and_hms(2026, 10, 1, 0, 0, 0).unwrap() + chrono::Duration::minutes(i);
+            let mut b = template.clone();
+            b.code = format!("B-IMPORT-{i:05}");
+            b.made_at = made_at;
+            b.notes[0].text = if i % 5 != 0 {
+                format!("glossy finish {i}")
+            } else {
+                format!("dull {i}")
+            };
+            b.notes[0].written_at = made_at;
+            b
+        })
+        .collect();
+    let report = store.import_batches(&list).unwrap();
+    assert_eq!(report.imported, 3_000, "{:?}", report.errors.first());
+
+    let page = |store: &Store, search: &str, limit: usize| {
+        store
+            .list_batches(&BatchFilter {
+                search: Some(search.into()),
+                limit,
+                ..Default::default()
+            })
+            .unwrap()
+            .into_iter()
+            .map(|b| b.code)
+            .collect::<Vec<_>>()
+    };
+    let expected: Vec<String> = (0..3_000)
+        .rev()
+        .filter(|i| i % 5 != 0)
+        .take(50)
+        .map(|i| format!("B-IMPORT-{i:05}"))
+        .collect();
+    assert_eq!(page(&store, "glossy", 50), expected);
+    assert_eq!(page(&store, "glossy", 0).len(), 2_400);
+    assert_eq!(
+        page(&store, "dull", 0).len(),
+        600,
+        "few matches: the sorting path"
+    );
+    assert_eq!(page(&store, "finish 1234", 0), ["B-IMPORT-01234"]);
+    // A prefix with many matches takes the third path; same page.
+    assert_eq!(page(&store, "gloss*", 50), expected);
+
+    // Notes and amendments written later are found too.
+    store
+        .add_note("B-IMPORT-00003", "seized the dasher", "Ines")
+        .unwrap();
+    store
+        .amend(
+            "B-IMPORT-00005",
+            "Head cook",
+            "scale misread",
+            &[Edit::Lot {
+                line: "sucrose".into(),
+                lot: "S-9931".into(),
+            }],
+        )
+        .unwrap();
+    assert_eq!(page(&store, "dasher", 0), ["B-IMPORT-00003"]);
+    assert_eq!(page(&store, "misread", 0), ["B-IMPORT-00005"]);
+    assert_eq!(page(&store, "S-9931", 0), ["B-IMPORT-00005"]);
 }

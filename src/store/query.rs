@@ -224,20 +224,27 @@ impl Store {
             );
         }
         if let Some(query) = filter.search.as_deref().and_then(fts_query) {
-            // Few matches: collect them and sort. Many: walk the batches newest first
-            // and probe the index for each, which stops as soon as the page is full.
-            let clause = if self.matches_at_least(&query, MANY_MATCHES)? {
-                format!(
-                    " AND EXISTS (SELECT 1 FROM batch_search WHERE batch_search MATCH ? \
-                       AND rowid >= b.id * {PER_BATCH} AND rowid < (b.id + 1) * {PER_BATCH})"
-                )
-            } else {
+            // Few matches: collect them and sort. Many: walk the batches newest first,
+            // which stops as soon as the page is full, testing each against the index
+            // (whole words) or against the collected matches (prefixes, which are slow
+            // to probe one batch at a time).
+            let clause = if !self.matches_at_least(&query.fts, MANY_MATCHES)? {
                 format!(
                     " AND b.id IN (SELECT rowid / {PER_BATCH} FROM batch_search \
                        WHERE batch_search MATCH ?)"
                 )
+            } else if query.has_prefix {
+                format!(
+                    " AND +b.id IN (SELECT rowid / {PER_BATCH} FROM batch_search \
+                       WHERE batch_search MATCH ?)"
+                )
+            } else {
+                format!(
+                    " AND EXISTS (SELECT 1 FROM batch_search WHERE batch_search MATCH ? \
+                       AND rowid >= b.id * {PER_BATCH} AND rowid < (b.id + 1) * {PER_BATCH})"
+                )
             };
-            arg(&mut sql, &clause, SqlValue::Text(query));
+            arg(&mut sql, &clause, SqlValue::Text(query.fts));
         }
         if let Some(after) = &filter.after {
             // A row-value comparison, so SQLite seeks the index to the cursor.

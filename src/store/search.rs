@@ -84,16 +84,40 @@ impl Pending {
     }
 }
 
-/// An FTS5 query matching every word the user typed (each as a prefix), with
-/// FTS syntax characters taken literally.
-pub(crate) fn fts_query(text: &str) -> Option<String> {
+/// A search the user typed, as an FTS5 query.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub(crate) struct Query {
+    /// The FTS5 MATCH text.
+    pub fts: String,
+    /// Whether some word is a prefix (`gloss*`): slower to probe one batch at a time.
+    pub has_prefix: bool,
+}
+
+/// Every word must appear as a whole word (a lot code like `S-2611-7` is a phrase
+/// of its parts); a word ending in `*` matches as a prefix. FTS syntax characters are
+/// taken literally.
+pub(crate) fn fts_query(text: &str) -> Option<Query> {
+    let mut has_prefix = false;
     let terms: Vec<String> = text
         .split_whitespace()
-        .map(|w| w.replace('"', ""))
-        .filter(|w| !w.is_empty())
-        .map(|w| format!("\"{w}\"*"))
+        .filter_map(|w| {
+            let prefix = w.ends_with('*');
+            let word = w.replace(['"', '*'], "");
+            if word.is_empty() {
+                return None;
+            }
+            has_prefix |= prefix;
+            Some(if prefix {
+                format!("\"{word}\"*")
+            } else {
+                format!("\"{word}\"")
+            })
+        })
         .collect();
-    (!terms.is_empty()).then(|| terms.join(" "))
+    (!terms.is_empty()).then(|| Query {
+        fts: terms.join(" "),
+        has_prefix,
+    })
 }
 
 #[cfg(test)]
@@ -101,12 +125,14 @@ mod tests {
     use super::*;
 
     #[test]
-    fn search_words_become_quoted_prefixes() {
-        assert_eq!(fts_query("  "), None);
-        assert_eq!(
-            fts_query("L-2026 \"odd\" AND"),
-            Some("\"L-2026\"* \"odd\"* \"AND\"*".into())
-        );
+    fn search_words_are_quoted_and_stars_make_prefixes() {
+        assert_eq!(fts_query("  * "), None);
+        let q = fts_query("L-2026 \"odd\" AND").unwrap();
+        assert_eq!(q.fts, "\"L-2026\" \"odd\" \"AND\"");
+        assert!(!q.has_prefix);
+        let q = fts_query("gloss*").unwrap();
+        assert_eq!(q.fts, "\"gloss\"*");
+        assert!(q.has_prefix);
     }
 
     #[test]
