@@ -13,6 +13,18 @@
 //!
 //! `model`, `thermo`, `catalog` and `analysis` are pure: no files, no clock, no
 //! terminal, no SQL.
+//!
+//! ```
+//! use std::path::Path;
+//! use gelu::analysis::{analyze, Options};
+//! use gelu::catalog::Catalog;
+//!
+//! let text = "name = \"Syrup\"\n[[line]]\ningredient = \"sucrose\"\ng = 20\n[[line]]\ningredient = \"water\"\ng = 80\n";
+//! let recipe = gelu::recipe_file::parse_recipe(Path::new("syrup.toml"), text).unwrap();
+//! let a = analyze(&recipe, Catalog::builtin(), &Options::default()).unwrap();
+//! // CRC Handbook: 20 % sucrose freezes 1.47 K below pure water.
+//! assert!((a.freezing_point_c.unwrap() + 1.47).abs() < 0.05);
+//! ```
 #![forbid(unsafe_code)]
 // `!(x > 0.0)` is used on purpose: it is also true for NaN, which user input can hold.
 #![allow(clippy::neg_cmp_op_on_partial_ord)]

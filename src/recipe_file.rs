@@ -10,7 +10,6 @@
 //! g = 480            # or kg = 0.48, ml = 500, l = 0.5
 //! ```
 
-use std::collections::BTreeMap;
 use std::fmt;
 use std::ops::Range;
 use std::path::{Path, PathBuf};
@@ -18,8 +17,8 @@ use std::path::{Path, PathBuf};
 use serde::Deserialize;
 use toml::Spanned;
 
-use crate::catalog::{Catalog, CatalogError, suggest_text};
-use crate::model::{Amount, Category, Ingredient, Line, Recipe, Solute, SoluteKind, Style};
+use crate::catalog::{Catalog, CatalogError, IngredientTable, suggest_text};
+use crate::model::{Amount, Line, Recipe, Solute, SoluteKind, Style};
 use crate::thermo::binary::WaterModel;
 
 /// A recipe file that cannot be read, with where and why.
@@ -67,7 +66,7 @@ struct RecipeDoc {
     #[serde(default)]
     solute: Vec<Spanned<SoluteDoc>>,
     #[serde(default)]
-    ingredient: Vec<Spanned<IngredientDoc>>,
+    ingredient: Vec<Spanned<IngredientTable>>,
     #[serde(default)]
     line: Vec<Spanned<LineDoc>>,
 }
@@ -90,31 +89,6 @@ struct SoluteDoc {
 
 fn one() -> Spanned<f64> {
     Spanned::new(0..0, 1.0)
-}
-
-#[derive(Deserialize)]
-#[serde(deny_unknown_fields)]
-struct IngredientDoc {
-    id: Spanned<String>,
-    name: String,
-    #[serde(default)]
-    category: Option<Spanned<String>>,
-    #[serde(default)]
-    water_pct: f64,
-    #[serde(default)]
-    fat_pct: f64,
-    #[serde(default)]
-    protein_pct: f64,
-    #[serde(default)]
-    other_solids_pct: f64,
-    #[serde(default)]
-    solutes_pct: BTreeMap<String, f64>,
-    #[serde(default)]
-    density_g_ml: Option<f64>,
-    #[serde(default)]
-    allergens: Vec<String>,
-    #[serde(default)]
-    source: Option<String>,
 }
 
 #[derive(Deserialize)]
@@ -227,7 +201,11 @@ pub fn parse_recipe_with(
     let ingredients = doc
         .ingredient
         .iter()
-        .map(|i| ingredient_from_doc(&ctx, i.get_ref()))
+        .map(|i| {
+            i.get_ref()
+                .to_ingredient("the recipe file's own ingredient")
+                .map_err(|(span, message)| ctx.err(span, message))
+        })
         .collect::<Result<Vec<_>, _>>()?;
     // Validate the user's own items, pointing at the one at fault.
     let extended = catalog
@@ -324,39 +302,6 @@ fn solute_from_doc(ctx: &Ctx, s: &SoluteDoc) -> Result<Solute, RecipeFileError> 
             .source
             .clone()
             .unwrap_or_else(|| "the recipe file's own solute".into()),
-    })
-}
-
-fn ingredient_from_doc(ctx: &Ctx, i: &IngredientDoc) -> Result<Ingredient, RecipeFileError> {
-    let category = match &i.category {
-        None => Category::Other,
-        Some(c) => Category::parse(c.get_ref()).ok_or_else(|| {
-            let all: Vec<&str> = Category::ALL.iter().map(|c| c.as_str()).collect();
-            ctx.err(
-                c.span(),
-                format!(
-                    "unknown category `{}`; valid categories: {}",
-                    c.get_ref(),
-                    all.join(", ")
-                ),
-            )
-        })?,
-    };
-    Ok(Ingredient {
-        id: i.id.get_ref().clone(),
-        name: i.name.clone(),
-        category,
-        water_pct: i.water_pct,
-        fat_pct: i.fat_pct,
-        protein_pct: i.protein_pct,
-        other_solids_pct: i.other_solids_pct,
-        solutes_pct: i.solutes_pct.clone(),
-        density_g_ml: i.density_g_ml.unwrap_or(1.0),
-        allergens: i.allergens.clone(),
-        source: i
-            .source
-            .clone()
-            .unwrap_or_else(|| "the recipe file's own ingredient".into()),
     })
 }
 

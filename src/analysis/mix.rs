@@ -130,7 +130,7 @@ impl<'c> Mix<'c> {
                 .values()
                 .filter(|(_, g)| *g > 0.0)
                 .map(|(e, g)| SerumSolute {
-                    table: &e.table,
+                    table: e.table(),
                     moles: g / e.solute.molar_mass_g_mol,
                     mass_g: *g,
                     glass_forming: e.solute.kind != SoluteKind::Alcohol,

@@ -1,6 +1,7 @@
 //! Recipe + catalog -> Mix -> Analysis: every figure the user sees, computed
 //! purely and cheaply enough to redo on every keystroke.
 
+mod classic;
 mod mix;
 mod targets;
 mod warnings;
@@ -163,6 +164,11 @@ pub struct Analysis {
     pub freezer: CurvePoint,
     /// Temperature at which freezing stops at maximal freeze concentration (°C), if above -60 °C.
     pub glass_limit_temp_c: Option<f64>,
+    /// Warmest temperature (°C) of the curve below which solutes holding most of the
+    /// unfrozen water are past their measured data; `None` if that never happens above -40 °C.
+    pub data_limit_temp_c: Option<f64>,
+    /// The classic sucrose-equivalent estimate of the freezing point (°C), for comparison.
+    pub classic_freezing_point_c: Option<f64>,
     /// Allergens present.
     pub allergens: Vec<String>,
     /// Warnings, most serious first.
@@ -273,11 +279,16 @@ fn analyze_with(
         cabinet: point(options.cabinet_temp_c),
         freezer: point(options.freezer_temp_c),
         glass_limit_temp_c: serum.glass_limit_temp_c(),
+        data_limit_temp_c: (1..=steps)
+            .map(|k| -(k as f64) * CURVE_STEP_K)
+            .find(|t| serum.share_beyond_data(*t) > 0.5)
+            .filter(|_| mix.water_g > 0.0),
+        classic_freezing_point_c: classic::classic_freezing_point_c(&mix, catalog),
         allergens: mix.allergens.clone(),
         warnings: Vec::new(),
         cautions: Vec::new(),
     };
-    analysis.warnings = warnings::warnings(&analysis, &mix, &serum);
+    analysis.warnings = warnings::warnings(&analysis, &mix);
     analysis.cautions = warnings::cautions(&analysis, &mix);
     Ok(analysis)
 }

@@ -4,7 +4,6 @@
 use serde::Serialize;
 
 use crate::model::{Category, Style};
-use crate::thermo::zsr::Serum;
 
 use super::{Analysis, Mix, targets_for};
 
@@ -48,7 +47,7 @@ fn fmt_temp(t: f64) -> String {
 }
 
 /// The warnings for an analysis, most serious first.
-pub fn warnings(a: &Analysis, mix: &Mix, serum: &Serum) -> Vec<Warning> {
+pub fn warnings(a: &Analysis, mix: &Mix) -> Vec<Warning> {
     let mut w = Vec::new();
     let mut add = |code, severity, message: String| {
         w.push(Warning {
@@ -218,19 +217,25 @@ pub fn warnings(a: &Analysis, mix: &Mix, serum: &Serum) -> Vec<Warning> {
             ),
         );
     }
-    if let Some(t) = a.serving_temp_c.or(a.freezing_point_c) {
-        let share = serum.share_beyond_data(t);
-        if share > 0.5 {
-            add(
-                "serum-beyond-data",
-                Severity::Note,
-                format!(
-                    "At {} the unfrozen syrup is more concentrated than the measured binary data, for solutes holding {:.0} % of its water: the figures there rest on the Norrish and ideal-law continuations.",
-                    fmt_temp(t),
-                    100.0 * share
-                ),
-            );
-        }
+    // Where the figures rest on measured data, and where on the continuations.
+    let coldest_of_interest = if a.style.is_drink() {
+        Some(a.freezer.temp_c)
+    } else {
+        a.serving_temp_c
+    };
+    if let (Some(limit), Some(t)) = (a.data_limit_temp_c, coldest_of_interest)
+        && t < limit
+    {
+        add(
+            "serum-beyond-data",
+            Severity::Note,
+            format!(
+                "Below {} the unfrozen syrup is more concentrated than the measured freezing data of its solutes; \
+                 from there down (including {}) the curve rests on the Norrish and ideal-law continuations: treat it as an estimate.",
+                fmt_temp(limit),
+                fmt_temp(t)
+            ),
+        );
     }
     if a.freezing_point_c.is_none() && water_g > 0.0 {
         add(

@@ -16,7 +16,7 @@ use crate::model::{Ingredient, Solute};
 use crate::thermo::binary::Binary;
 use crate::thermo::zsr::FreezingTable;
 
-pub use spec::{CatalogFileError, parse_catalog};
+pub use spec::{CatalogFileError, IngredientTable, parse_catalog};
 pub use suggest::{did_you_mean as suggest_text, nearest};
 
 /// Tolerance on a composition's total (mass %): 100 ± this.
@@ -29,23 +29,27 @@ pub struct SoluteEntry {
     pub solute: Solute,
     /// Its binary model with the dissociation factor.
     pub binary: Binary,
-    /// Its binary freezing curve on the ZSR grid.
-    pub table: FreezingTable,
+    /// Its binary freezing curve on the ZSR grid, tabulated on first use.
+    table: OnceLock<FreezingTable>,
 }
 
 impl SoluteEntry {
-    /// Builds the entry, tabulating the freezing curve.
+    /// Builds the entry; the freezing curve is tabulated when first needed.
     pub fn new(solute: Solute) -> SoluteEntry {
         let binary = Binary {
             dissociation: solute.dissociation,
             model: solute.model.clone(),
         };
-        let table = FreezingTable::new(&binary);
         SoluteEntry {
             solute,
             binary,
-            table,
+            table: OnceLock::new(),
         }
+    }
+
+    /// The binary freezing curve on the ZSR grid.
+    pub fn table(&self) -> &FreezingTable {
+        self.table.get_or_init(|| FreezingTable::new(&self.binary))
     }
 }
 

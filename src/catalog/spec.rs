@@ -4,6 +4,7 @@
 use std::collections::BTreeMap;
 
 use serde::Deserialize;
+use toml::Spanned;
 
 use crate::model::{Category, Ingredient, Solute, SoluteKind};
 use crate::thermo::binary::WaterModel;
@@ -31,7 +32,7 @@ struct CatalogFile {
     #[serde(default)]
     solute: Vec<SoluteSpec>,
     #[serde(default)]
-    ingredient: Vec<IngredientSpec>,
+    ingredient: Vec<IngredientTable>,
 }
 
 #[derive(Deserialize)]
@@ -67,26 +68,81 @@ struct SoluteSpec {
     freezing_data: Vec<[f64; 2]>,
 }
 
+/// An ingredient table as written in the catalog and in recipe files.
 #[derive(Deserialize)]
 #[serde(deny_unknown_fields)]
-struct IngredientSpec {
-    id: String,
-    name: String,
-    category: Category,
+pub struct IngredientTable {
+    /// Kebab-case id, with its place in the file.
+    pub id: Spanned<String>,
+    /// Display name.
+    pub name: String,
+    /// Category name, with its place in the file; `other` when absent.
     #[serde(default)]
-    water_pct: f64,
+    pub category: Option<Spanned<String>>,
+    /// Water (mass %).
     #[serde(default)]
-    fat_pct: f64,
+    pub water_pct: f64,
+    /// Fat (mass %).
     #[serde(default)]
-    protein_pct: f64,
+    pub fat_pct: f64,
+    /// Protein (mass %).
     #[serde(default)]
-    other_solids_pct: f64,
+    pub protein_pct: f64,
+    /// Insoluble or non-osmotic solids (mass %).
     #[serde(default)]
-    solutes_pct: BTreeMap<String, f64>,
-    density_g_ml: f64,
+    pub other_solids_pct: f64,
+    /// Dissolved solutes by id (mass %).
     #[serde(default)]
-    allergens: Vec<String>,
-    source: String,
+    pub solutes_pct: BTreeMap<String, f64>,
+    /// Density (g/mL); 1 when absent.
+    #[serde(default)]
+    pub density_g_ml: Option<f64>,
+    /// Allergens.
+    #[serde(default)]
+    pub allergens: Vec<String>,
+    /// Where the numbers come from.
+    #[serde(default)]
+    pub source: Option<String>,
+}
+
+impl IngredientTable {
+    /// The ingredient, or the span and message of an unknown category.
+    /// Composition checks are [`crate::catalog::Catalog::validate_ingredient`]'s job.
+    pub fn to_ingredient(
+        &self,
+        default_source: &str,
+    ) -> Result<Ingredient, (std::ops::Range<usize>, String)> {
+        let category = match &self.category {
+            None => Category::Other,
+            Some(c) => Category::parse(c.get_ref()).ok_or_else(|| {
+                let all: Vec<&str> = Category::ALL.iter().map(|c| c.as_str()).collect();
+                (
+                    c.span(),
+                    format!(
+                        "unknown category `{}`; valid categories: {}",
+                        c.get_ref(),
+                        all.join(", ")
+                    ),
+                )
+            })?,
+        };
+        Ok(Ingredient {
+            id: self.id.get_ref().clone(),
+            name: self.name.clone(),
+            category,
+            water_pct: self.water_pct,
+            fat_pct: self.fat_pct,
+            protein_pct: self.protein_pct,
+            other_solids_pct: self.other_solids_pct,
+            solutes_pct: self.solutes_pct.clone(),
+            density_g_ml: self.density_g_ml.unwrap_or(1.0),
+            allergens: self.allergens.clone(),
+            source: self
+                .source
+                .clone()
+                .unwrap_or_else(|| default_source.to_string()),
+        })
+    }
 }
 
 /// Molality (mol/kg water) of a binary solution of `mass_pct` solute (g per 100 g solution).
@@ -176,20 +232,14 @@ pub fn parse_catalog(text: &str) -> Result<(Vec<Solute>, Vec<Ingredient>), Catal
         .collect::<Result<Vec<_>, _>>()?;
     let ingredients = file
         .ingredient
-        .into_iter()
-        .map(|i| Ingredient {
-            id: i.id,
-            name: i.name,
-            category: i.category,
-            water_pct: i.water_pct,
-            fat_pct: i.fat_pct,
-            protein_pct: i.protein_pct,
-            other_solids_pct: i.other_solids_pct,
-            solutes_pct: i.solutes_pct,
-            density_g_ml: i.density_g_ml,
-            allergens: i.allergens,
-            source: i.source,
+        .iter()
+        .map(|i| {
+            i.to_ingredient("")
+                .map_err(|(_, why)| CatalogFileError::Entry {
+                    id: i.id.get_ref().clone(),
+                    why,
+                })
         })
-        .collect();
+        .collect::<Result<Vec<_>, _>>()?;
     Ok((solutes, ingredients))
 }

@@ -10,7 +10,7 @@ use crate::analysis::{Options, analyze};
 use crate::catalog::Catalog;
 use crate::model::Recipe;
 use crate::recipe_file::{parse_recipe, read_recipe};
-use crate::report::json::analysis_json;
+use crate::report::json::write_analysis_json;
 use crate::report::text::report_text;
 use crate::report::{TempUnit, parse_temp_c};
 use crate::samples::SAMPLE_RECIPES;
@@ -53,12 +53,62 @@ fn emit(
 ) -> Result<(), String> {
     let a = analyze(recipe, Catalog::builtin(), options).map_err(|e| e.to_string())?;
     if json {
-        serde_json::to_writer(&mut *out, &analysis_json(&a))
+        write_analysis_json(&a, &mut *out)
             .map_err(|e| e.to_string())
             .and_then(|_| writeln!(out).map_err(|e| e.to_string()))
     } else {
         writeln!(out, "{}", report_text(&a, unit)).map_err(|e| e.to_string())
     }
+}
+
+/// The report of one file, or why there is none.
+fn report_file(
+    path: &Path,
+    options: &Options,
+    json: bool,
+    unit: TempUnit,
+) -> Result<Vec<u8>, String> {
+    let (recipe, _) = read_recipe(path).map_err(|e| e.to_string())?;
+    let mut buf = Vec::with_capacity(if json { 6 << 10 } else { 4 << 10 });
+    emit(&mut buf, &recipe, options, json, unit).map_err(|e| format!("{}: {e}", path.display()))?;
+    Ok(buf)
+}
+
+/// Files reported per round; each round is shared among the worker threads and
+/// written out in order before the next starts, so memory stays bounded.
+const FILES_PER_ROUND: usize = 512;
+
+/// Reports `files` on all cores, returning the outcomes in file order.
+fn report_round(
+    files: &[PathBuf],
+    options: &Options,
+    json: bool,
+    unit: TempUnit,
+) -> Vec<Result<Vec<u8>, String>> {
+    let threads = std::thread::available_parallelism()
+        .map_or(1, |n| n.get())
+        .clamp(1, 8);
+    let per_thread = files.len().div_ceil(threads).max(1);
+    std::thread::scope(|scope| {
+        let workers: Vec<_> = files
+            .chunks(per_thread)
+            .map(|chunk| {
+                scope.spawn(move || {
+                    chunk
+                        .iter()
+                        .map(|p| report_file(p, options, json, unit))
+                        .collect::<Vec<_>>()
+                })
+            })
+            .collect();
+        workers
+            .into_iter()
+            .flat_map(|w| {
+                w.join()
+                    .unwrap_or_else(|_| vec![Err("internal error while reporting".to_string())])
+            })
+            .collect()
+    })
 }
 
 /// Runs `gelu report`.
@@ -76,17 +126,16 @@ pub fn run(args: &ReportArgs) -> anyhow::Result<ExitCode> {
     let stdout = std::io::stdout();
     let mut out = BufWriter::new(stdout.lock());
     let mut failed = 0usize;
-    for path in &args.files {
-        let result = read_recipe(path)
-            .map_err(|e| e.to_string())
-            .and_then(|(recipe, _)| {
-                emit(&mut out, &recipe, &options, args.json, unit)
-                    .map_err(|e| format!("{}: {e}", path.display()))
-            });
-        if let Err(message) = result {
-            out.flush()?;
-            eprintln!("gelu: {message}");
-            failed += 1;
+    for round in args.files.chunks(FILES_PER_ROUND) {
+        for outcome in report_round(round, &options, args.json, unit) {
+            match outcome {
+                Ok(bytes) => out.write_all(&bytes)?,
+                Err(message) => {
+                    out.flush()?;
+                    eprintln!("gelu: {message}");
+                    failed += 1;
+                }
+            }
         }
     }
     out.flush()?;

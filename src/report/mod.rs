@@ -66,3 +66,27 @@ pub fn parse_temp_c(text: &str) -> Result<f64, String> {
     }
     Ok(c)
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn temperatures_parse_in_both_scales() {
+        assert_eq!(parse_temp_c("-18"), Ok(-18.0));
+        assert_eq!(parse_temp_c("-18C"), Ok(-18.0));
+        assert_eq!(parse_temp_c(" -18 °C "), Ok(-18.0));
+        assert!((parse_temp_c("0F").unwrap() + 160.0 / 9.0).abs() < 1e-12);
+        assert!((parse_temp_c("-40f").unwrap() + 40.0).abs() < 1e-12);
+        assert!(parse_temp_c("cold").is_err());
+        assert!(parse_temp_c("nan").is_err());
+        assert!(parse_temp_c("20").is_err(), "above 0 °C nothing freezes");
+        assert!(parse_temp_c("-80").is_err(), "below the model's range");
+    }
+
+    #[test]
+    fn fahrenheit_display() {
+        assert_eq!(TempUnit::Fahrenheit.format(-18.0), "-0.4 °F");
+        assert_eq!(TempUnit::Celsius.format(-13.0), "-13.0 °C");
+    }
+}

@@ -32,6 +32,11 @@ pub fn report_text(a: &Analysis, unit: TempUnit) -> String {
     );
     let _ = writeln!(
         o,
+        "  classic method      {}",
+        temp_or(unit, a.classic_freezing_point_c, "-")
+    );
+    let _ = writeln!(
+        o,
         "  dilute-law estimate {}",
         temp_or(unit, a.dilute_law_freezing_point_c, "-")
     );

@@ -206,11 +206,47 @@ impl Binary {
 
     /// The molality (mol/kg water) of the binary solution whose water activity
     /// is exp(`ln_aw`). Returns 0 for `ln_aw >= 0` and `f64::INFINITY` when no
-    /// finite molality reaches it. Safeguarded Newton with a bisection fallback.
+    /// finite molality reaches it. A close `guess` (mol/kg) makes it cheap: a
+    /// few secant steps from it, with a bracketed Newton-bisection as fallback.
     pub fn molality_at(&self, ln_aw: f64, guess: Option<f64>) -> f64 {
         if ln_aw >= 0.0 || ln_aw.is_nan() {
             return 0.0;
         }
+        if let Some(m) = guess
+            .filter(|g| *g > 0.0 && g.is_finite())
+            .and_then(|g| self.secant_from(ln_aw, g))
+        {
+            return m;
+        }
+        self.bracketed_molality(ln_aw, guess)
+    }
+
+    /// Secant iterations from `guess`; `None` if they do not converge cleanly.
+    fn secant_from(&self, ln_aw: f64, guess: f64) -> Option<f64> {
+        let f = |m: f64| self.ln_aw(m) - ln_aw;
+        let tol = 1e-13 * ln_aw.abs().max(1e-12);
+        let (mut m0, mut m1) = (guess, guess * (1.0 + 1e-4));
+        let (mut f0, mut f1) = (f(m0), f(m1));
+        for _ in 0..12 {
+            if f1.abs() <= tol {
+                return Some(m1);
+            }
+            let denom = f1 - f0;
+            if denom == 0.0 || !denom.is_finite() {
+                return None;
+            }
+            let next = m1 - f1 * (m1 - m0) / denom;
+            if !(next > 0.0 && next.is_finite()) {
+                return None;
+            }
+            (m0, f0) = (m1, f1);
+            m1 = next;
+            f1 = f(m1);
+        }
+        None
+    }
+
+    fn bracketed_molality(&self, ln_aw: f64, guess: Option<f64>) -> f64 {
         let f = |m: f64| self.ln_aw(m) - ln_aw;
         let ideal = -ln_aw / (self.dissociation.max(1e-9) * WATER_MOLAR_MASS_KG);
         let mut lo = 0.0_f64;

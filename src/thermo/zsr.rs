@@ -42,13 +42,19 @@ pub struct FreezingTable {
 impl FreezingTable {
     /// Tabulates `binary` on the grid (about 600 inversions of the binary model).
     pub fn new(binary: &Binary) -> Self {
-        let mut molality = Vec::with_capacity(GRID_LEN);
-        let mut guess = None;
+        let mut molality: Vec<f64> = Vec::with_capacity(GRID_LEN);
         for k in 0..GRID_LEN {
             let temp_c = -(k as f64) * GRID_STEP_K;
-            let m = binary.molality_at(ln_ice_activity(temp_c), guess);
-            molality.push(m);
-            guess = Some(m).filter(|m| m.is_finite() && *m > 0.0);
+            // Extrapolate the last two points: the secant solver then needs two or three steps.
+            let guess = match molality.as_slice() {
+                [.., a, b] => Some(2.0 * b - a),
+                [b] => Some(*b),
+                [] => None,
+            };
+            molality.push(binary.molality_at(
+                ln_ice_activity(temp_c),
+                guess.filter(|g| g.is_finite() && *g > 0.0),
+            ));
         }
         let data_limit_c = binary
             .validated_molality()
@@ -115,22 +121,9 @@ impl Serum<'_> {
         if !(temp_c < 0.0) {
             return self.water_g;
         }
-        let mut unfrozen = 0.0;
-        let mut glass = 0.0;
-        for s in &self.solutes {
-            let m = s.table.molality_at(temp_c);
-            if s.moles > 0.0 {
-                unfrozen += if m > 0.0 {
-                    1000.0 * s.moles / m
-                } else {
-                    f64::INFINITY
-                };
-            }
-            if s.glass_forming {
-                glass += GLASS_WATER_PER_SOLUTE_G * s.mass_g;
-            }
-        }
-        unfrozen.max(glass).min(self.water_g)
+        self.zsr_water_g(temp_c)
+            .max(self.glass_water_g())
+            .min(self.water_g)
     }
 
     /// Share of the mix's water that is ice at `temp_c` (°C), 0..1.
@@ -139,6 +132,15 @@ impl Serum<'_> {
             return 0.0;
         }
         (1.0 - self.unfrozen_water_g(temp_c) / self.water_g).clamp(0.0, 1.0)
+    }
+
+    /// Water (g) the glass-forming solutes keep unfrozen at maximal freeze concentration.
+    pub fn glass_water_g(&self) -> f64 {
+        self.solutes
+            .iter()
+            .filter(|s| s.glass_forming)
+            .map(|s| GLASS_WATER_PER_SOLUTE_G * s.mass_g)
+            .sum()
     }
 
     /// Unfrozen water by ZSR alone (g), without the glass limit or the cap at
@@ -180,17 +182,58 @@ impl Serum<'_> {
                 hi = mid
             }
         }
-        // Within one cell the interpolated curve is smooth and monotone: bisect.
+        // Within one cell the interpolated curve is smooth and monotone: the
+        // Illinois variant of regula falsi converges in a handful of steps.
         let (mut warm, mut cold) = (-(lo as f64) * GRID_STEP_K, -(hi as f64) * GRID_STEP_K);
-        for _ in 0..40 {
-            let mid = 0.5 * (warm + cold);
-            if self.zsr_water_g(mid) > water_g {
-                warm = mid
+        let (mut f_warm, mut f_cold) = (
+            self.zsr_water_g(warm) - water_g,
+            self.zsr_water_g(cold) - water_g,
+        );
+        if !f_warm.is_finite() {
+            // At 0 °C the unfrozen water is unbounded: start just inside the cell.
+            warm = -1e-9;
+            f_warm = self.zsr_water_g(warm) - water_g;
+        }
+        let mut side = 0i8;
+        for _ in 0..60 {
+            if (warm - cold).abs() < 1e-10 || f_cold == 0.0 {
+                break;
+            }
+            let t = if f_warm.is_finite() {
+                cold - f_cold * (cold - warm) / (f_cold - f_warm)
             } else {
-                cold = mid
+                0.5 * (warm + cold)
+            };
+            let t = if t.is_finite() && t < warm && t > cold {
+                t
+            } else {
+                0.5 * (warm + cold)
+            };
+            let f = self.zsr_water_g(t) - water_g;
+            if f > 0.0 {
+                warm = t;
+                f_warm = f;
+                if side == 1 {
+                    f_cold *= 0.5;
+                }
+                side = 1;
+            } else {
+                cold = t;
+                f_cold = f;
+                if side == -1 {
+                    f_warm *= 0.5;
+                }
+                side = -1;
+            }
+            if f.abs() < 1e-12 * water_g {
+                return Some(t);
             }
         }
-        Some(0.5 * (warm + cold))
+        Some(if f_cold.abs() < f_warm.abs() {
+            cold
+        } else {
+            warm
+        })
     }
 
     /// Initial freezing point (°C): where the first ice forms. 0 for pure
@@ -213,12 +256,7 @@ impl Serum<'_> {
             return None;
         }
         let target_g = (1.0 - frozen_fraction) * self.water_g;
-        let glass: f64 = self
-            .solutes
-            .iter()
-            .filter(|s| s.glass_forming)
-            .map(|s| GLASS_WATER_PER_SOLUTE_G * s.mass_g)
-            .sum();
+        let glass = self.glass_water_g();
         if glass > target_g {
             return None;
         }
@@ -240,12 +278,7 @@ impl Serum<'_> {
     /// Temperature (°C) at which freezing stops at the glass limit, if it does
     /// above [`GRID_MIN_C`].
     pub fn glass_limit_temp_c(&self) -> Option<f64> {
-        let glass: f64 = self
-            .solutes
-            .iter()
-            .filter(|s| s.glass_forming)
-            .map(|s| GLASS_WATER_PER_SOLUTE_G * s.mass_g)
-            .sum();
+        let glass = self.glass_water_g();
         if glass <= 0.0 || glass >= self.water_g {
             return None;
         }
@@ -269,5 +302,78 @@ impl Serum<'_> {
             }
         }
         if total > 0.0 { beyond / total } else { 0.0 }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::thermo::binary::WaterModel;
+
+    fn sucrose_like() -> Binary {
+        Binary {
+            dissociation: 1.0,
+            model: WaterModel::Ideal { norrish_k: 6.47 },
+        }
+    }
+
+    fn serum<'a>(table: &'a FreezingTable, parts: &[(f64, f64)], water_g: f64) -> Serum<'a> {
+        Serum {
+            water_g,
+            solutes: parts
+                .iter()
+                .map(|(moles, mass_g)| SerumSolute {
+                    table,
+                    moles: *moles,
+                    mass_g: *mass_g,
+                    glass_forming: true,
+                    dissociation: 1.0,
+                })
+                .collect(),
+        }
+    }
+
+    #[test]
+    fn one_solute_freezes_where_its_binary_solution_does() {
+        let b = sucrose_like();
+        let table = FreezingTable::new(&b);
+        let s = serum(&table, &[(0.5, 171.15)], 1000.0);
+        let binary_fp = crate::thermo::ice::temp_c_for_ln_activity(b.ln_aw(0.5));
+        assert!((s.freezing_point_c().unwrap() - binary_fp).abs() < 1e-4);
+    }
+
+    #[test]
+    fn splitting_a_solute_in_two_changes_nothing() {
+        // ZSR is exact for two portions of the same solute: the mix is the binary
+        // solution at the summed molality.
+        let table = FreezingTable::new(&sucrose_like());
+        let whole = serum(&table, &[(0.8, 273.8)], 1000.0);
+        let split = serum(&table, &[(0.3, 102.7), (0.5, 171.1)], 1000.0);
+        assert!(
+            (whole.freezing_point_c().unwrap() - split.freezing_point_c().unwrap()).abs() < 1e-9
+        );
+        for t in [-2.0, -5.0, -15.0] {
+            assert!((whole.frozen_fraction(t) - split.frozen_fraction(t)).abs() < 1e-12);
+        }
+    }
+
+    #[test]
+    fn freezing_stops_at_the_glass_limit() {
+        let table = FreezingTable::new(&sucrose_like());
+        let s = serum(&table, &[(1.0, 342.3)], 1000.0);
+        // At -60 °C at most 1 - 0.25 * 342.3 / 1000 of the water can be ice.
+        let most = 1.0 - GLASS_WATER_PER_SOLUTE_G * 342.3 / 1000.0;
+        assert!((s.frozen_fraction(GRID_MIN_C) - most).abs() < 1e-12);
+        let limit = s.glass_limit_temp_c().unwrap();
+        assert!(s.frozen_fraction(limit - 1.0) <= most + 1e-12);
+        assert!(s.frozen_fraction(limit + 1.0) < most);
+    }
+
+    #[test]
+    fn serving_temperature_is_where_the_share_is_reached() {
+        let table = FreezingTable::new(&sucrose_like());
+        let s = serum(&table, &[(0.6, 205.4)], 1000.0);
+        let t = s.temp_for_frozen_fraction(0.7).unwrap();
+        assert!((s.frozen_fraction(t) - 0.7).abs() < 1e-6);
     }
 }
