@@ -1,7 +1,7 @@
 //! The batch log: a local SQLite file holding recipes and their immutable
 //! versions, batches with their lines, lots, measurements, notes, analysis snapshots
 //! and the append-only amendment trail, plus settings. This is the only module that
-//! speaks SQL; it hands out the domain types of [`types`].
+//! speaks SQL; it hands out plain domain types ([`Batch`], [`BatchSummary`], ...).
 //!
 //! - [`open`]: where the file lives, what is refused, connection settings.
 //! - [`migrate`]: the forward-only migrations of `schema.sql`.
