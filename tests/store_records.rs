@@ -372,17 +372,21 @@ fn export_import_export_gives_identical_lines() {
     let liqueur = store
         .new_batch(&planned("strawberry-liqueur.toml", "750mL", 9, "", ""))
         .unwrap();
+    // A batch of an edited recipe (version 2) travels with its own text.
+    let mut edited = planned("harbour-vanilla.toml", "1kg", 10, "", "");
+    edited.recipe_text = edited.recipe_text.replace("g = 480", "g = 470");
+    assert_eq!(store.new_batch(&edited).unwrap().recipe.version, 2);
     store
         .add_measurement(&liqueur.code, MeasurementKind::AbvPct, 20.1, "Jon")
         .unwrap();
 
     let first = export(&store);
-    assert_eq!(first.lines().count(), 7);
+    assert_eq!(first.lines().count(), 8);
     let (_dir2, mut other) = fresh();
     let report = other.import_jsonl(&mut first.as_bytes()).unwrap();
     assert_eq!(
         (report.imported, report.skipped_existing),
-        (7, 0),
+        (8, 0),
         "{:?}",
         report.errors
     );
@@ -393,7 +397,7 @@ fn export_import_export_gives_identical_lines() {
 
     // Importing again skips every code; nothing is duplicated.
     let again = other.import_jsonl(&mut first.as_bytes()).unwrap();
-    assert_eq!((again.imported, again.skipped_existing), (0, 7));
+    assert_eq!((again.imported, again.skipped_existing), (0, 8));
     assert_eq!(export(&other), first);
     let amended = other.batch("B-20261104-0001").unwrap().unwrap();
     assert_eq!(amended.status, Status::Amended);
@@ -539,4 +543,25 @@ fn searches_with_many_matches_page_like_a_plain_filter() {
     assert_eq!(page(&store, "dasher", 0), ["B-IMPORT-00003"]);
     assert_eq!(page(&store, "misread", 0), ["B-IMPORT-00005"]);
     assert_eq!(page(&store, "S-9931", 0), ["B-IMPORT-00005"]);
+}
+
+#[test]
+fn custom_solutes_and_ingredients_are_kept_by_id() {
+    let (_dir, mut store) = fresh();
+    let solute = gelu::store::CustomItem {
+        id: "sea-buckthorn-sugars".into(),
+        name: "Sea buckthorn sugars".into(),
+        definition: "molar_mass = 180.16\ndissociation = 1.0\n".into(),
+    };
+    store.save_custom_solute(&solute).unwrap();
+    let mut ingredient = gelu::store::CustomItem {
+        id: "harbour-honey".into(),
+        name: "Harbour honey".into(),
+        definition: "water = 17.0\n".into(),
+    };
+    store.save_custom_ingredient(&ingredient).unwrap();
+    ingredient.definition = "water = 18.0\n".into();
+    store.save_custom_ingredient(&ingredient).unwrap();
+    assert_eq!(store.custom_solutes().unwrap(), [solute]);
+    assert_eq!(store.custom_ingredients().unwrap(), [ingredient]);
 }
