@@ -96,7 +96,7 @@ END;
 CREATE TABLE batch_lines (
     id          INTEGER PRIMARY KEY,
     batch_id    INTEGER NOT NULL REFERENCES batches(id),
-    position    INTEGER NOT NULL,
+    position    INTEGER NOT NULL CHECK (position BETWEEN 1 AND 262143),
     ingredient  TEXT NOT NULL,
     planned_g   REAL NOT NULL,
     actual_g    REAL,
@@ -174,31 +174,13 @@ BEGIN SELECT RAISE(ABORT, 'an amendment is never changed; add a new one'); END;
 CREATE TRIGGER amendments_append_only_delete BEFORE DELETE ON amendments
 BEGIN SELECT RAISE(ABORT, 'an amendment is never deleted'); END;
 
--- Full-text search over notes, supplier lots and amendment reasons. One row per source
--- row; `batch_id` says which batch it belongs to. Kept by the triggers below.
+-- Full-text search over notes, supplier lots and amendment reasons. Contentless (the
+-- text lives in its own tables) and append-only, like what it indexes. The store writes
+-- it at the end of each transaction (see src/store/search.rs): entry rowids are
+-- batch_id * 2^20 plus a slot (a line's position; 2^18 + a note's number; 2^19 + an
+-- amendment's number), so a match names its batch without a lookup.
 CREATE VIRTUAL TABLE batch_search USING fts5 (
     body,
-    batch_id UNINDEXED,
+    content = '',
     tokenize = 'unicode61 remove_diacritics 2'
 );
-
-CREATE TRIGGER batch_search_notes AFTER INSERT ON batch_notes
-BEGIN
-    INSERT INTO batch_search (body, batch_id) VALUES (NEW.text, NEW.batch_id);
-END;
-CREATE TRIGGER batch_search_lots AFTER INSERT ON batch_lines
-WHEN NEW.lot <> ''
-BEGIN
-    INSERT INTO batch_search (body, batch_id) VALUES (NEW.lot, NEW.batch_id);
-END;
-CREATE TRIGGER batch_search_lot_changes AFTER UPDATE OF lot ON batch_lines
-WHEN NEW.lot <> ''
-BEGIN
-    INSERT INTO batch_search (body, batch_id) VALUES (NEW.lot, NEW.batch_id);
-END;
-CREATE TRIGGER batch_search_amendments AFTER INSERT ON amendments
-BEGIN
-    INSERT INTO batch_search (body, batch_id)
-    VALUES (NEW.reason || ' ' || coalesce((SELECT group_concat(json_extract(value, '$.new'), ' ')
-                                           FROM json_each(NEW.changes)), ''), NEW.batch_id);
-END;

@@ -168,3 +168,47 @@ fn four_processes_adding_batches_at_once_all_get_through() {
     let check = gelu(&db).args(["db", "check"]).output().unwrap();
     assert!(check.status.success());
 }
+
+#[test]
+fn a_backup_taken_while_another_process_writes_is_whole() {
+    let dir = tempfile::tempdir().unwrap();
+    let db = dir.path().join("busy.db");
+    assert!(new_batch(&db, "before").status().unwrap().success());
+    let writer = {
+        let db = db.clone();
+        std::thread::spawn(move || {
+            (0..8)
+                .map(|i| {
+                    new_batch(&db, &format!("during {i}"))
+                        .status()
+                        .unwrap()
+                        .success()
+                })
+                .all(|ok| ok)
+        })
+    };
+    std::thread::sleep(Duration::from_millis(150));
+    let copy = dir.path().join("copy.db");
+    let out = gelu(&db)
+        .args(["db", "backup"])
+        .arg(&copy)
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    assert!(writer.join().unwrap(), "the writer was not disturbed");
+    let check = gelu(&copy).args(["db", "check"]).output().unwrap();
+    assert!(
+        check.status.success(),
+        "{}",
+        String::from_utf8_lossy(&check.stdout)
+    );
+    let in_copy = codes_in(&copy);
+    assert!(!in_copy.is_empty());
+    let in_original = codes_in(&db);
+    assert_eq!(in_original.len(), 9);
+    assert!(in_copy.iter().all(|c| in_original.contains(c)));
+}

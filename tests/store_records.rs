@@ -292,7 +292,13 @@ fn the_list_filters_searches_and_pages_newest_first() {
     };
     assert_eq!(search("ajar"), ["B-20261107-0001"]);
     assert_eq!(search("SUC-05"), ["B-20261105-0001"]);
-    assert_eq!(search("lemon").len(), 4, "lots LEMON-3.. match by prefix");
+    assert_eq!(
+        search("lemon").len(),
+        4,
+        "lots LEMON-3.. hold the word lemon"
+    );
+    assert!(search("lem").is_empty(), "whole words only...");
+    assert_eq!(search("lem*").len(), 4, "...unless a word ends in *");
     assert!(search("pistachio").is_empty());
     assert!(
         search("\"unbalanced AND (").is_empty(),
@@ -366,17 +372,21 @@ fn export_import_export_gives_identical_lines() {
     let liqueur = store
         .new_batch(&planned("strawberry-liqueur.toml", "750mL", 9, "", ""))
         .unwrap();
+    // A batch of an edited recipe (version 2) travels with its own text.
+    let mut edited = planned("harbour-vanilla.toml", "1kg", 10, "", "");
+    edited.recipe_text = edited.recipe_text.replace("g = 480", "g = 470");
+    assert_eq!(store.new_batch(&edited).unwrap().recipe.version, 2);
     store
         .add_measurement(&liqueur.code, MeasurementKind::AbvPct, 20.1, "Jon")
         .unwrap();
 
     let first = export(&store);
-    assert_eq!(first.lines().count(), 7);
+    assert_eq!(first.lines().count(), 8);
     let (_dir2, mut other) = fresh();
     let report = other.import_jsonl(&mut first.as_bytes()).unwrap();
     assert_eq!(
         (report.imported, report.skipped_existing),
-        (7, 0),
+        (8, 0),
         "{:?}",
         report.errors
     );
@@ -387,7 +397,7 @@ fn export_import_export_gives_identical_lines() {
 
     // Importing again skips every code; nothing is duplicated.
     let again = other.import_jsonl(&mut first.as_bytes()).unwrap();
-    assert_eq!((again.imported, again.skipped_existing), (0, 7));
+    assert_eq!((again.imported, again.skipped_existing), (0, 8));
     assert_eq!(export(&other), first);
     let amended = other.batch("B-20261104-0001").unwrap().unwrap();
     assert_eq!(amended.status, Status::Amended);
@@ -452,4 +462,106 @@ fn a_malformed_import_line_is_reported_and_nothing_of_it_written() {
         "nothing of a refused line is written"
     );
     assert!(other.check().unwrap().is_empty());
+}
+
+#[test]
+fn searches_with_many_matches_page_like_a_plain_filter() {
+    let (_dir, mut store) = fresh();
+    let template = store
+        .new_batch(&planned(
+            "harbour-vanilla.toml",
+            "2kg",
+            1,
+            "S-0",
+            "template",
+        ))
+        .unwrap();
+    // 3,000 batches, four in five noted "glossy": enough to take the many-matches path.
+    let list: Vec<_> = (0..3_000)
+        .map(|i| {
+            let made_at =
+                Utc.with_ymd_and_hms(2026, 10, 1, 0, 0, 0).unwrap() + chrono::Duration::minutes(i);
+            let mut b = template.clone();
+            b.code = format!("B-IMPORT-{i:05}");
+            b.made_at = made_at;
+            b.notes[0].text = if i % 5 != 0 {
+                format!("glossy finish {i}")
+            } else {
+                format!("dull {i}")
+            };
+            b.notes[0].written_at = made_at;
+            b
+        })
+        .collect();
+    let report = store.import_batches(&list).unwrap();
+    assert_eq!(report.imported, 3_000, "{:?}", report.errors.first());
+
+    let page = |store: &Store, search: &str, limit: usize| {
+        store
+            .list_batches(&BatchFilter {
+                search: Some(search.into()),
+                limit,
+                ..Default::default()
+            })
+            .unwrap()
+            .into_iter()
+            .map(|b| b.code)
+            .collect::<Vec<_>>()
+    };
+    let expected: Vec<String> = (0..3_000)
+        .rev()
+        .filter(|i| i % 5 != 0)
+        .take(50)
+        .map(|i| format!("B-IMPORT-{i:05}"))
+        .collect();
+    assert_eq!(page(&store, "glossy", 50), expected);
+    assert_eq!(page(&store, "glossy", 0).len(), 2_400);
+    assert_eq!(
+        page(&store, "dull", 0).len(),
+        600,
+        "few matches: the sorting path"
+    );
+    assert_eq!(page(&store, "finish 1234", 0), ["B-IMPORT-01234"]);
+    // A prefix with many matches takes the third path; same page.
+    assert_eq!(page(&store, "gloss*", 50), expected);
+
+    // Notes and amendments written later are found too.
+    store
+        .add_note("B-IMPORT-00003", "seized the dasher", "Ines")
+        .unwrap();
+    store
+        .amend(
+            "B-IMPORT-00005",
+            "Head cook",
+            "scale misread",
+            &[Edit::Lot {
+                line: "sucrose".into(),
+                lot: "S-9931".into(),
+            }],
+        )
+        .unwrap();
+    assert_eq!(page(&store, "dasher", 0), ["B-IMPORT-00003"]);
+    assert_eq!(page(&store, "misread", 0), ["B-IMPORT-00005"]);
+    assert_eq!(page(&store, "S-9931", 0), ["B-IMPORT-00005"]);
+}
+
+#[test]
+fn custom_solutes_and_ingredients_are_kept_by_id() {
+    let (_dir, mut store) = fresh();
+    let solute = gelu::store::CustomItem {
+        id: "sea-buckthorn-sugars".into(),
+        name: "Sea buckthorn sugars".into(),
+        definition: "molar_mass = 180.16\ndissociation = 1.0\n".into(),
+    };
+    store.save_custom_solute(&solute).unwrap();
+    let mut ingredient = gelu::store::CustomItem {
+        id: "harbour-honey".into(),
+        name: "Harbour honey".into(),
+        definition: "water = 17.0\n".into(),
+    };
+    store.save_custom_ingredient(&ingredient).unwrap();
+    ingredient.definition = "water = 18.0\n".into();
+    store.save_custom_ingredient(&ingredient).unwrap();
+    assert_eq!(store.custom_solutes().unwrap(), [solute]);
+    assert_eq!(store.custom_ingredients().unwrap(), [ingredient]);
 }

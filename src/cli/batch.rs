@@ -35,7 +35,7 @@ pub struct FilterArgs {
     /// Made on or before DATE (YYYY-MM-DD includes that whole day).
     #[arg(long, value_name = "DATE")]
     pub until: Option<String>,
-    /// Words to find in notes, supplier lots and amendment reasons.
+    /// Words to find in notes, supplier lots and amendment reasons (`gloss*` for a prefix).
     #[arg(long, value_name = "TEXT")]
     pub search: Option<String>,
 }

@@ -8,6 +8,7 @@ use rusqlite::{Connection, OptionalExtension, Transaction, params};
 use super::amend::{self, Edit};
 use super::error::{Result, StoreError};
 use super::recipes::{self, VersionIds};
+use super::search::{self, Pending, Slot};
 use super::types::{
     Amendment, Batch, BatchLine, Measurement, MeasurementKind, NewBatch, Note, Status,
 };
@@ -40,9 +41,19 @@ pub(crate) fn find(conn: &Connection, code: &str) -> Result<(i64, String)> {
 /// Whether a batch with this code exists.
 pub(crate) fn exists(conn: &Connection, code: &str) -> Result<bool> {
     Ok(conn
-        .query_row("SELECT 1 FROM batches WHERE code = ?1", [code], |_| Ok(()))
+        .prepare_cached("SELECT 1 FROM batches WHERE code = ?1")?
+        .query_row([code], |_| Ok(()))
         .optional()?
         .is_some())
+}
+
+/// How many rows of `table` (a literal name, never user input) belong to a batch.
+fn count(tx: &Transaction, table: &'static str, batch_id: i64) -> Result<usize> {
+    let sql = format!("SELECT count(*) FROM {table} WHERE batch_id = ?1");
+    let n: i64 = tx
+        .prepare_cached(&sql)?
+        .query_row([batch_id], |r| r.get(0))?;
+    Ok(n as usize)
 }
 
 fn check_finite(what: &str, value: f64) -> Result<()> {
@@ -65,7 +76,13 @@ fn check_name(what: &str, name: &str) -> Result<()> {
 
 /// Writes one whole record as first written (before amendments), then its trail.
 /// `batch.operator` and `batch.lines` must be the values before the amendments.
-pub(crate) fn insert_record(tx: &Transaction, ids: VersionIds, batch: &Batch) -> Result<i64> {
+/// Its search entries are queued on `search`, to be written with the transaction.
+pub(crate) fn insert_record(
+    tx: &Transaction,
+    ids: VersionIds,
+    batch: &Batch,
+    search: &mut Pending,
+) -> Result<i64> {
     check_name("the operator", &batch.operator)?;
     check_finite("the batch size", batch.size_g)?;
     if batch.size_g <= 0.0 {
@@ -107,11 +124,13 @@ pub(crate) fn insert_record(tx: &Transaction, ids: VersionIds, batch: &Batch) ->
             line.actual_g,
             line.lot
         ])?;
+        search.push(id, Slot::Lot(i + 1), &line.lot);
     }
     tx.prepare_cached("INSERT INTO batch_predictions (batch_id, analysis) VALUES (?1, ?2)")?
         .execute(params![id, batch.prediction.to_string()])?;
-    for note in &batch.notes {
+    for (i, note) in batch.notes.iter().enumerate() {
         insert_note(tx, id, note)?;
+        search.push(id, Slot::Note(i + 1), &note.text);
     }
     for m in &batch.measurements {
         insert_measurement(tx, id, m)?;
@@ -124,8 +143,9 @@ pub(crate) fn insert_record(tx: &Transaction, ids: VersionIds, batch: &Batch) ->
         )?
         .execute(params![id, values::time_text(&at), by])?;
     }
-    for a in &batch.amendments {
+    for (i, a) in batch.amendments.iter().enumerate() {
         insert_amendment(tx, id, a)?;
+        search.push(id, Slot::Amendment(i + 1), &search::amendment_text(a));
     }
     Ok(id)
 }
@@ -215,7 +235,9 @@ impl Store {
                 amendments: Vec::new(),
                 prediction: new.prediction.clone(),
             };
-            insert_record(tx, ids, &batch)?;
+            let mut entries = Pending::default();
+            insert_record(tx, ids, &batch, &mut entries)?;
+            entries.write(tx)?;
             Ok(code)
         })?;
         self.require(&code)
@@ -272,7 +294,10 @@ impl Store {
         };
         self.write(|tx| {
             let (id, _) = find(tx, code)?;
-            insert_note(tx, id, &note)
+            insert_note(tx, id, &note)?;
+            let mut entries = Pending::default();
+            entries.push(id, Slot::Note(count(tx, "batch_notes", id)?), &note.text);
+            entries.write(tx)
         })?;
         Ok(note)
     }
@@ -326,6 +351,10 @@ impl Store {
                 changes,
             };
             insert_amendment(tx, id, &a)?;
+            let mut entries = Pending::default();
+            let n = count(tx, "amendments", id)?;
+            entries.push(id, Slot::Amendment(n), &search::amendment_text(&a));
+            entries.write(tx)?;
             Ok(a)
         })
     }

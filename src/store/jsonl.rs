@@ -1,23 +1,17 @@
 //! Batches as JSON: one object per batch, the public contract of `--json`,
-//! export and import. JSON Lines export then import gives back every field exactly;
-//! an import skips codes already present and refuses a malformed line whole.
+//! export and import (see `import` for reading them back). JSON Lines export then
+//! import gives back every field exactly.
 
-use std::io::{BufRead, Write};
+use std::io::Write;
 
 use serde_json::{Map, Value, json};
 
-use super::batches::{self, original_record};
 use super::error::{Result, StoreError};
-use super::recipes;
 use super::types::{
-    Amendment, Batch, BatchFilter, BatchLine, Change, ImportReport, Measurement, MeasurementKind,
-    Note, RecipeVersion, Status,
+    Amendment, Batch, BatchFilter, BatchLine, Change, Measurement, MeasurementKind, Note,
+    RecipeVersion, Status,
 };
 use super::{Store, values};
-
-/// How many import lines share one transaction (a crash loses at most one chunk,
-/// and running the import again skips what was written).
-const IMPORT_CHUNK: usize = 5_000;
 
 /// The batch as its public JSON object. Keys are a contract: add, never rename.
 pub fn batch_json(b: &Batch) -> Value {
@@ -244,102 +238,11 @@ fn io_error(e: std::io::Error) -> StoreError {
     }
 }
 
-/// One import line's outcome.
-enum LineOutcome {
-    Imported,
-    Skipped,
-    Refused(String),
-}
-
-fn import_line(tx: &rusqlite::Transaction, line: &str) -> Result<LineOutcome> {
-    let value: Value = match serde_json::from_str(line) {
-        Ok(v) => v,
-        Err(e) => return Ok(LineOutcome::Refused(format!("not valid JSON: {e}"))),
-    };
-    let batch = match batch_from_json(&value) {
-        Ok(b) => b,
-        Err(e) => return Ok(LineOutcome::Refused(e.to_string())),
-    };
-    if batches::exists(tx, &batch.code)? {
-        return Ok(LineOutcome::Skipped);
-    }
-    tx.execute_batch("SAVEPOINT import_line")?;
-    let written = (|| {
-        let ids = recipes::ensure_version(tx, &batch.recipe)?;
-        let (operator, lines) = original_record(&batch)?;
-        let first = Batch {
-            operator,
-            lines,
-            ..batch.clone()
-        };
-        batches::insert_record(tx, ids, &first)
-    })();
-    match written {
-        Ok(_) => {
-            tx.execute_batch("RELEASE import_line")?;
-            Ok(LineOutcome::Imported)
-        }
-        Err(e) => {
-            tx.execute_batch("ROLLBACK TO import_line; RELEASE import_line")?;
-            match e {
-                StoreError::Invalid(msg) => Ok(LineOutcome::Refused(msg)),
-                StoreError::Sql(e) if !super::error::is_busy(&e) => {
-                    Ok(LineOutcome::Refused(e.to_string()))
-                }
-                other => Err(other),
-            }
-        }
-    }
-}
-
 impl Store {
     /// Writes every batch matching `filter` as one JSON object per line; returns the count.
     pub fn export_jsonl(&self, filter: &BatchFilter, out: &mut dyn Write) -> Result<usize> {
         each_batch(self, filter, |b| {
             writeln!(out, "{}", batch_json(b)).map_err(io_error)
         })
-    }
-
-    /// Reads JSON Lines of batches. A code already present is skipped and counted; a
-    /// malformed line is reported by number and nothing of it is written.
-    pub fn import_jsonl(&mut self, input: &mut dyn BufRead) -> Result<ImportReport> {
-        let mut report = ImportReport::default();
-        let mut chunk: Vec<(usize, String)> = Vec::with_capacity(IMPORT_CHUNK);
-        let mut number = 0;
-        loop {
-            let mut line = String::new();
-            let read = input
-                .read_line(&mut line)
-                .map_err(|source| StoreError::Io {
-                    path: "the import file".into(),
-                    source,
-                })?;
-            if read > 0 {
-                number += 1;
-                if !line.trim().is_empty() {
-                    chunk.push((number, line));
-                }
-            }
-            if chunk.len() >= IMPORT_CHUNK || (read == 0 && !chunk.is_empty()) {
-                let part = self.write(|tx| {
-                    let mut part = ImportReport::default();
-                    for (n, text) in &chunk {
-                        match import_line(tx, text)? {
-                            LineOutcome::Imported => part.imported += 1,
-                            LineOutcome::Skipped => part.skipped_existing += 1,
-                            LineOutcome::Refused(why) => part.errors.push((*n, why)),
-                        }
-                    }
-                    Ok(part)
-                })?;
-                report.imported += part.imported;
-                report.skipped_existing += part.skipped_existing;
-                report.errors.extend(part.errors);
-                chunk.clear();
-            }
-            if read == 0 {
-                return Ok(report);
-            }
-        }
     }
 }

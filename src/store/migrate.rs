@@ -98,6 +98,14 @@ pub fn migrate(
             supported: target,
         });
     }
+    if found == target {
+        // Up to date: no lock taken, so opening never waits for writers.
+        return Ok(Migrated {
+            from: found,
+            to: target,
+            backup: None,
+        });
+    }
     let mut backup_path = None;
     if found > 0 && found < target {
         backup_path = Some(backup::beside(conn, path, found)?);

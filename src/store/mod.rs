@@ -1,13 +1,13 @@
 //! The batch log: a local SQLite file holding recipes and their immutable
 //! versions, batches with their lines, lots, measurements, notes, analysis snapshots
 //! and the append-only amendment trail, plus settings. This is the only module that
-//! speaks SQL; it hands out the domain types of [`types`].
+//! speaks SQL; it hands out plain domain types ([`Batch`], [`BatchSummary`], ...).
 //!
 //! - [`open`]: where the file lives, what is refused, connection settings.
 //! - [`migrate`]: the forward-only migrations of `schema.sql`.
 //! - [`tx`]: immediate write transactions with a bounded retry.
 //! - `recipes`, `batches`, `query`: reading and writing records.
-//! - [`jsonl`] and [`csv`]: export and import.
+//! - [`jsonl`], [`csv`] and `import`: export and import.
 //! - [`plan`]: a recipe scaled to a batch size, ready for [`Store::new_batch`].
 //!
 //! Every write is one transaction: a crash or a refused request leaves nothing half
@@ -18,12 +18,14 @@ pub mod backup;
 mod batches;
 pub mod csv;
 mod error;
+mod import;
 pub mod jsonl;
 pub mod migrate;
 pub mod open;
 pub mod plan;
 mod query;
 mod recipes;
+mod search;
 mod seed;
 pub mod tx;
 mod types;

@@ -7,6 +7,7 @@ use rusqlite::{Connection, OptionalExtension, Row};
 
 use super::amend;
 use super::error::{Result, StoreError};
+use super::search::{PER_BATCH, fts_query};
 use super::types::{
     Amendment, Batch, BatchCursor, BatchFilter, BatchLine, BatchSummary, Change, Measurement,
     MeasurementKind, Note, RecipeVersion, Status,
@@ -28,19 +29,21 @@ fn status(stored: &str, amended: bool) -> Status {
     }
 }
 
-/// An FTS5 query matching every word the user typed (each as a prefix), with
-/// FTS syntax characters taken literally.
-fn fts_query(text: &str) -> Option<String> {
-    let terms: Vec<String> = text
-        .split_whitespace()
-        .map(|w| w.replace('"', ""))
-        .filter(|w| !w.is_empty())
-        .map(|w| format!("\"{w}\"*"))
-        .collect();
-    (!terms.is_empty()).then(|| terms.join(" "))
-}
+/// From how many index matches a search walks the batches instead of sorting matches.
+const MANY_MATCHES: i64 = 2_000;
 
 impl Store {
+    /// Whether a full-text query has at least `n` matching index rows (bounded work).
+    fn matches_at_least(&self, query: &str, n: i64) -> Result<bool> {
+        let found: i64 = self
+            .conn
+            .prepare_cached(
+                "SELECT count(*) FROM (SELECT 1 FROM batch_search WHERE batch_search MATCH ?1 LIMIT ?2)",
+            )?
+            .query_row(rusqlite::params![query, n], |r| r.get(0))?;
+        Ok(found >= n)
+    }
+
     /// The whole record of one batch, amendments applied, or `None`.
     pub fn batch(&self, code: &str) -> Result<Option<Batch>> {
         Store::read_batch(&self.conn, code)
@@ -221,24 +224,36 @@ impl Store {
             );
         }
         if let Some(query) = filter.search.as_deref().and_then(fts_query) {
-            arg(
-                &mut sql,
-                " AND b.id IN (SELECT batch_id FROM batch_search WHERE batch_search MATCH ?)",
-                SqlValue::Text(query),
-            );
+            // Few matches: collect them and sort. Many: walk the batches newest first,
+            // which stops as soon as the page is full, testing each against the index
+            // (whole words) or against the collected matches (prefixes, which are slow
+            // to probe one batch at a time).
+            let clause = if !self.matches_at_least(&query.fts, MANY_MATCHES)? {
+                format!(
+                    " AND b.id IN (SELECT rowid / {PER_BATCH} FROM batch_search \
+                       WHERE batch_search MATCH ?)"
+                )
+            } else if query.has_prefix {
+                format!(
+                    " AND +b.id IN (SELECT rowid / {PER_BATCH} FROM batch_search \
+                       WHERE batch_search MATCH ?)"
+                )
+            } else {
+                format!(
+                    " AND EXISTS (SELECT 1 FROM batch_search WHERE batch_search MATCH ? \
+                       AND rowid >= b.id * {PER_BATCH} AND rowid < (b.id + 1) * {PER_BATCH})"
+                )
+            };
+            arg(&mut sql, &clause, SqlValue::Text(query.fts));
         }
         if let Some(after) = &filter.after {
+            // A row-value comparison, so SQLite seeks the index to the cursor.
             arg(
                 &mut sql,
-                " AND (b.made_at < ?",
+                " AND (b.made_at, b.id) < (?",
                 SqlValue::Text(after.made_at.clone()),
             );
-            arg(
-                &mut sql,
-                " OR (b.made_at = ?",
-                SqlValue::Text(after.made_at.clone()),
-            );
-            arg(&mut sql, " AND b.id < ?))", SqlValue::Integer(after.id));
+            arg(&mut sql, ", ?)", SqlValue::Integer(after.id));
         }
         sql.push_str(" ORDER BY b.made_at DESC, b.id DESC");
         if filter.limit > 0 {
@@ -266,19 +281,5 @@ impl Store {
             })
         })?;
         Ok(rows.collect::<rusqlite::Result<_>>()?)
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    use super::fts_query;
-
-    #[test]
-    fn search_words_become_quoted_prefixes() {
-        assert_eq!(fts_query("  "), None);
-        assert_eq!(
-            fts_query("L-2026 \"odd\" AND"),
-            Some("\"L-2026\"* \"odd\"* \"AND\"*".into())
-        );
     }
 }

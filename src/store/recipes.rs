@@ -16,9 +16,8 @@ pub(crate) struct VersionIds {
 
 fn recipe_id(tx: &Transaction, name: &str) -> Result<i64> {
     let found: Option<i64> = tx
-        .query_row("SELECT id FROM recipes WHERE name = ?1", [name], |r| {
-            r.get(0)
-        })
+        .prepare_cached("SELECT id FROM recipes WHERE name = ?1")?
+        .query_row([name], |r| r.get(0))
         .optional()?;
     if let Some(id) = found {
         return Ok(id);
@@ -110,11 +109,12 @@ pub(crate) fn ensure_version(tx: &Transaction, v: &RecipeVersion) -> Result<Vers
         )));
     }
     let found: Option<(i64, String)> = tx
-        .query_row(
+        .prepare_cached(
             "SELECT id, content_hash FROM recipe_versions WHERE recipe_id = ?1 AND version = ?2",
-            params![recipe_id, v.version],
-            |r| Ok((r.get(0)?, r.get(1)?)),
-        )
+        )?
+        .query_row(params![recipe_id, v.version], |r| {
+            Ok((r.get(0)?, r.get(1)?))
+        })
         .optional()?;
     let version_id = match found {
         Some((id, h)) if h == hash => id,

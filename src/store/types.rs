@@ -351,7 +351,8 @@ pub struct BatchFilter {
     pub since: Option<DateTime<Utc>>,
     /// Made before this time.
     pub until: Option<DateTime<Utc>>,
-    /// Full-text search over notes, lots and amendment reasons (words, prefix-matched).
+    /// Full-text search over notes, lots and amendment reasons: whole words, or
+    /// prefixes when a word ends in `*`.
     pub search: Option<String>,
     /// At most this many rows (0 means no limit).
     pub limit: usize,

@@ -1,0 +1,188 @@
+//! Importing batch records made elsewhere (JSON Lines or [`Batch`] values). A code
+//! already present is skipped and counted; a refused record is reported by its line
+//! number and nothing of it is written. Lines are written in chunks, one transaction
+//! each: a chunk is first tried whole, and only if some record in it is refused by
+//! the database is it written again record by record behind savepoints. (Savepoints
+//! on every record would make the full-text index flush once per record.)
+
+use std::collections::HashMap;
+use std::io::BufRead;
+
+use rusqlite::Transaction;
+use serde_json::Value;
+
+use super::Store;
+use super::batches::{self, original_record};
+use super::error::{Result, StoreError, is_busy};
+use super::jsonl::batch_from_json;
+use super::recipes::{self, VersionIds};
+use super::search::Pending;
+use super::types::{Batch, ImportReport, RecipeVersion};
+
+/// How many records share one transaction (a crash loses at most one chunk, and
+/// running the import again skips what was written).
+const CHUNK: usize = 5_000;
+
+/// A record to import: its 1-based number, and the record as first written (before
+/// its amendments), or why it was refused before anything was written.
+type Item = (usize, std::result::Result<Batch, String>);
+
+/// The record as first written, rebuilt from the current values and the trail.
+fn first_written(batch: Batch) -> std::result::Result<Batch, String> {
+    let (operator, lines) = original_record(&batch).map_err(|e| e.to_string())?;
+    Ok(Batch {
+        operator,
+        lines,
+        ..batch
+    })
+}
+
+fn parse_line(text: &str) -> std::result::Result<Batch, String> {
+    let value: Value = serde_json::from_str(text).map_err(|e| format!("not valid JSON: {e}"))?;
+    let batch = batch_from_json(&value).map_err(|e| e.to_string())?;
+    first_written(batch)
+}
+
+/// The message of an error that refuses one record, or the error itself when it is
+/// about the file or the lock (those stop the import).
+fn refusal(e: StoreError) -> std::result::Result<String, StoreError> {
+    match e {
+        StoreError::Invalid(msg) => Ok(msg),
+        StoreError::Sql(e) if !is_busy(&e) => Ok(e.to_string()),
+        other => Err(other),
+    }
+}
+
+/// Recipe versions already found or added in this chunk, so that the thousands of
+/// batches of one version are not each hashed and looked up again.
+#[derive(Default)]
+struct Versions(HashMap<(String, u32), (RecipeVersion, VersionIds)>);
+
+impl Versions {
+    fn ids(&mut self, tx: &Transaction, v: &RecipeVersion) -> Result<VersionIds> {
+        let key = (v.recipe.clone(), v.version);
+        if let Some((known, ids)) = self.0.get(&key)
+            && known == v
+        {
+            return Ok(*ids);
+        }
+        let ids = recipes::ensure_version(tx, v)?;
+        self.0.insert(key, (v.clone(), ids));
+        Ok(ids)
+    }
+}
+
+fn write_one(
+    tx: &Transaction,
+    versions: &mut Versions,
+    search: &mut Pending,
+    first: &Batch,
+) -> Result<()> {
+    let ids = versions.ids(tx, &first.recipe)?;
+    batches::insert_record(tx, ids, first, search).map(|_| ())
+}
+
+fn write_chunk(tx: &Transaction, items: &[Item], careful: bool) -> Result<ImportReport> {
+    let mut report = ImportReport::default();
+    // Rolled back with the chunk, so never shared between attempts.
+    let mut versions = Versions::default();
+    let mut search = Pending::default();
+    for (number, item) in items {
+        let first = match item {
+            Err(why) => {
+                report.errors.push((*number, why.clone()));
+                continue;
+            }
+            Ok(first) => first,
+        };
+        if batches::exists(tx, &first.code)? {
+            report.skipped_existing += 1;
+        } else if !careful {
+            write_one(tx, &mut versions, &mut search, first)?;
+            report.imported += 1;
+        } else {
+            tx.execute_batch("SAVEPOINT import_record")?;
+            let queued = search.len();
+            match write_one(tx, &mut versions, &mut search, first) {
+                Ok(()) => {
+                    tx.execute_batch("RELEASE import_record")?;
+                    report.imported += 1;
+                }
+                Err(e) => {
+                    tx.execute_batch("ROLLBACK TO import_record; RELEASE import_record")?;
+                    // The versions it added and its search entries are gone with it.
+                    versions.0.clear();
+                    search.truncate(queued);
+                    report.errors.push((*number, refusal(e)?));
+                }
+            }
+        }
+    }
+    search.write(tx)?;
+    Ok(report)
+}
+
+fn merge(into: &mut ImportReport, part: ImportReport) {
+    into.imported += part.imported;
+    into.skipped_existing += part.skipped_existing;
+    into.errors.extend(part.errors);
+}
+
+impl Store {
+    fn import_chunk(&mut self, items: &[Item]) -> Result<ImportReport> {
+        match self.write(|tx| write_chunk(tx, items, false)) {
+            Ok(report) => Ok(report),
+            Err(e) => {
+                // Something was refused: nothing of the chunk was kept; redo it carefully.
+                refusal(e)?;
+                self.write(|tx| write_chunk(tx, items, true))
+            }
+        }
+    }
+
+    /// Writes batches recorded elsewhere, as an import does; a refused batch is
+    /// reported by its 1-based position and nothing of it is written.
+    pub fn import_batches(&mut self, list: &[Batch]) -> Result<ImportReport> {
+        let mut report = ImportReport::default();
+        for (start, part) in list.chunks(CHUNK).enumerate() {
+            let items: Vec<Item> = part
+                .iter()
+                .enumerate()
+                .map(|(i, b)| (start * CHUNK + i + 1, first_written(b.clone())))
+                .collect();
+            merge(&mut report, self.import_chunk(&items)?);
+        }
+        Ok(report)
+    }
+
+    /// Reads JSON Lines of batches. A code already present is skipped and counted; a
+    /// malformed line is reported by number and nothing of it is written.
+    pub fn import_jsonl(&mut self, input: &mut dyn BufRead) -> Result<ImportReport> {
+        let mut report = ImportReport::default();
+        let mut items: Vec<Item> = Vec::with_capacity(CHUNK);
+        let mut number = 0;
+        let mut line = String::new();
+        loop {
+            line.clear();
+            let read = input
+                .read_line(&mut line)
+                .map_err(|source| StoreError::Io {
+                    path: "the import file".into(),
+                    source,
+                })?;
+            if read > 0 {
+                number += 1;
+                if !line.trim().is_empty() {
+                    items.push((number, parse_line(&line)));
+                }
+            }
+            if items.len() >= CHUNK || (read == 0 && !items.is_empty()) {
+                merge(&mut report, self.import_chunk(&items)?);
+                items.clear();
+            }
+            if read == 0 {
+                return Ok(report);
+            }
+        }
+    }
+}
