@@ -39,7 +39,7 @@ fn first_written(batch: Batch) -> std::result::Result<Batch, String> {
 
 fn parse_line(text: &str) -> std::result::Result<Batch, String> {
     let value: Value = serde_json::from_str(text).map_err(|e| format!("not valid JSON: {e}"))?;
-    let batch = batch_from_json(&value).map_err(|e| e.to_string())?;
+    let batch = batch_from_json(value).map_err(|e| e.to_string())?;
     first_written(batch)
 }
 
