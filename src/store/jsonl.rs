@@ -106,7 +106,11 @@ pub fn batch_from_json(v: Value) -> Result<Batch> {
     let prediction = o
         .remove("prediction")
         .ok_or_else(|| bad("the key `prediction` is missing".into()))?;
-    let o = &o;
+    batch_from_fields(&o, prediction)
+}
+
+/// Reads a batch from the fields of its JSON object other than `prediction`.
+pub(crate) fn batch_from_fields(o: &Map<String, Value>, prediction: Value) -> Result<Batch> {
     let status_text = text(o, "status")?;
     let status = Status::parse(&status_text).ok_or_else(|| {
         bad(format!(
