@@ -238,30 +238,59 @@ fn on_a_million(c: &mut Criterion) {
     }
 }
 
+/// A full analysis snapshot (about 5 kB of JSON), as `gelu batch new` stores.
+fn real_snapshot() -> serde_json::Value {
+    let (file, text) = gelu::samples::SAMPLE_RECIPES[0];
+    let recipe = gelu::recipe_file::parse_recipe(Path::new(file), text).unwrap();
+    let plan = gelu::store::plan::Plan {
+        recipe: &recipe,
+        recipe_text: text,
+        size: gelu::store::plan::BatchSize::Grams(5000.0),
+        operator: "cook",
+        lots: &[],
+        note: None,
+        made_at: made_at(0),
+    };
+    gelu::store::plan::plan_batch(&plan).unwrap().prediction
+}
+
 fn import(c: &mut Criterion) {
     const N: usize = 20_000;
     let dir = tempfile::tempdir().unwrap();
     let recipes = versions(&Store::open(&dir.path().join("seed.db")).unwrap());
-    let text: String = (0..N)
+    let snapshot = real_snapshot();
+    let compact: String = (0..N)
         .map(|i| format!("{}\n", batch_json(&synthetic(i, &recipes))))
+        .collect();
+    let full: String = (0..N)
+        .map(|i| {
+            let mut b = synthetic(i, &recipes);
+            b.prediction = snapshot.clone();
+            format!("{}\n", batch_json(&b))
+        })
         .collect();
     let mut group = c.benchmark_group("import");
     group.throughput(Throughput::Elements(N as u64));
     let mut run = 0;
-    group.bench_function("20,000 batches of JSON Lines into a fresh file", |b| {
-        b.iter_batched(
-            || {
-                run += 1;
-                Store::open(&dir.path().join(format!("fresh-{run}.db"))).unwrap()
-            },
-            |mut store| {
-                let report = store.import_jsonl(&mut text.as_bytes()).unwrap();
-                assert_eq!(report.imported, N);
-                store
-            },
-            BatchSize::PerIteration,
-        )
-    });
+    for (label, text) in [
+        ("20,000 batches, compact snapshots", &compact),
+        ("20,000 batches, full 5 kB analysis snapshots", &full),
+    ] {
+        group.bench_function(label, |b| {
+            b.iter_batched(
+                || {
+                    run += 1;
+                    Store::open(&dir.path().join(format!("fresh-{run}.db"))).unwrap()
+                },
+                |mut store| {
+                    let report = store.import_jsonl(&mut text.as_bytes()).unwrap();
+                    assert_eq!(report.imported, N);
+                    store
+                },
+                BatchSize::PerIteration,
+            )
+        });
+    }
     group.finish();
 }
 

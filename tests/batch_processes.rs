@@ -177,14 +177,12 @@ fn a_backup_taken_while_another_process_writes_is_whole() {
     let writer = {
         let db = db.clone();
         std::thread::spawn(move || {
-            (0..8)
-                .map(|i| {
-                    new_batch(&db, &format!("during {i}"))
-                        .status()
-                        .unwrap()
-                        .success()
-                })
-                .all(|ok| ok)
+            (0..8).all(|i| {
+                new_batch(&db, &format!("during {i}"))
+                    .status()
+                    .unwrap()
+                    .success()
+            })
         })
     };
     std::thread::sleep(Duration::from_millis(150));

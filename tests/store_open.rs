@@ -123,6 +123,30 @@ fn a_file_that_is_not_a_database_is_refused_untouched() {
     assert_eq!(std::fs::read_to_string(&path).unwrap(), text);
 }
 
+/// Makes a file immutable (`chattr +i`) for as long as it lives; root ignores
+/// permission bits but not this.
+struct Immutable(std::path::PathBuf);
+
+impl Immutable {
+    fn set(path: &std::path::Path) -> Option<Immutable> {
+        let ok = std::process::Command::new("chattr")
+            .arg("+i")
+            .arg(path)
+            .status()
+            .is_ok_and(|s| s.success());
+        ok.then(|| Immutable(path.to_path_buf()))
+    }
+}
+
+impl Drop for Immutable {
+    fn drop(&mut self) {
+        let _ = std::process::Command::new("chattr")
+            .arg("-i")
+            .arg(&self.0)
+            .status();
+    }
+}
+
 #[test]
 fn a_read_only_file_gets_a_clear_message() {
     use std::os::unix::fs::PermissionsExt;
@@ -130,12 +154,18 @@ fn a_read_only_file_gets_a_clear_message() {
     let path = dir.path().join("ro.db");
     drop(Store::open(&path).unwrap());
     std::fs::set_permissions(&path, std::fs::Permissions::from_mode(0o444)).unwrap();
+    let mut _guard = None;
     if std::fs::OpenOptions::new().write(true).open(&path).is_ok() {
-        // Running as root: permissions do not stop writes, so there is nothing to test.
-        eprintln!("skipped: this user can write read-only files (root)");
-        return;
+        // Root ignores permission bits; an immutable file stops even root.
+        _guard = Immutable::set(&path);
+        if _guard.is_none() {
+            eprintln!("skipped: this user writes read-only files and chattr is not available");
+            return;
+        }
     }
+    let before = std::fs::read(&path).unwrap();
     let err = Store::open(&path).unwrap_err();
     assert!(matches!(err, StoreError::ReadOnly { .. }), "{err}");
     assert!(err.to_string().contains("cannot be written"));
+    assert_eq!(std::fs::read(&path).unwrap(), before);
 }

@@ -76,11 +76,14 @@ fn check_name(what: &str, name: &str) -> Result<()> {
 
 /// Writes one whole record as first written (before amendments), then its trail.
 /// `batch.operator` and `batch.lines` must be the values before the amendments.
-/// Its search entries are queued on `search`, to be written with the transaction.
+/// `prediction_json` is the analysis snapshot as JSON text (`batch.prediction` is
+/// not read, so an import can pass the text it read without parsing it). Its search
+/// entries are queued on `search`, to be written with the transaction.
 pub(crate) fn insert_record(
     tx: &Transaction,
     ids: VersionIds,
     batch: &Batch,
+    prediction_json: &str,
     search: &mut Pending,
 ) -> Result<i64> {
     check_name("the operator", &batch.operator)?;
@@ -127,7 +130,7 @@ pub(crate) fn insert_record(
         search.push(id, Slot::Lot(i + 1), &line.lot);
     }
     tx.prepare_cached("INSERT INTO batch_predictions (batch_id, analysis) VALUES (?1, ?2)")?
-        .execute(params![id, batch.prediction.to_string()])?;
+        .execute(params![id, prediction_json])?;
     for (i, note) in batch.notes.iter().enumerate() {
         insert_note(tx, id, note)?;
         search.push(id, Slot::Note(i + 1), &note.text);
@@ -236,7 +239,7 @@ impl Store {
                 prediction: new.prediction.clone(),
             };
             let mut entries = Pending::default();
-            insert_record(tx, ids, &batch, &mut entries)?;
+            insert_record(tx, ids, &batch, &new.prediction.to_string(), &mut entries)?;
             entries.write(tx)?;
             Ok(code)
         })?;

@@ -5,16 +5,17 @@
 //! the database is it written again record by record behind savepoints. (Savepoints
 //! on every record would make the full-text index flush once per record.)
 
-use std::collections::HashMap;
+use std::collections::{BTreeMap, HashMap};
 use std::io::BufRead;
 
 use rusqlite::Transaction;
-use serde_json::Value;
+use serde_json::value::RawValue;
+use serde_json::{Map, Value};
 
 use super::Store;
 use super::batches::{self, original_record};
 use super::error::{Result, StoreError, is_busy};
-use super::jsonl::batch_from_json;
+use super::jsonl::batch_from_fields;
 use super::recipes::{self, VersionIds};
 use super::search::Pending;
 use super::types::{Batch, ImportReport, RecipeVersion};
@@ -23,9 +24,16 @@ use super::types::{Batch, ImportReport, RecipeVersion};
 /// running the import again skips what was written).
 const CHUNK: usize = 5_000;
 
-/// A record to import: its 1-based number, and the record as first written (before
-/// its amendments), or why it was refused before anything was written.
-type Item = (usize, std::result::Result<Batch, String>);
+/// A record ready to write: as first written (before its amendments), with its
+/// analysis snapshot as JSON text.
+struct Record {
+    first: Batch,
+    prediction_json: String,
+}
+
+/// A record to import: its 1-based number, and the record, or why it was refused
+/// before anything was written.
+type Item = (usize, std::result::Result<Record, String>);
 
 /// The record as first written, rebuilt from the current values and the trail.
 fn first_written(batch: Batch) -> std::result::Result<Batch, String> {
@@ -37,10 +45,43 @@ fn first_written(batch: Batch) -> std::result::Result<Batch, String> {
     })
 }
 
-fn parse_line(text: &str) -> std::result::Result<Batch, String> {
-    let value: Value = serde_json::from_str(text).map_err(|e| format!("not valid JSON: {e}"))?;
-    let batch = batch_from_json(&value).map_err(|e| e.to_string())?;
-    first_written(batch)
+fn record(batch: Batch) -> std::result::Result<Record, String> {
+    let prediction_json = batch.prediction.to_string();
+    let first = first_written(Batch {
+        prediction: Value::Null,
+        ..batch
+    })?;
+    Ok(Record {
+        first,
+        prediction_json,
+    })
+}
+
+/// Reads one line. The analysis snapshot, most of the line, is kept as the text
+/// it was (checked to be JSON) rather than parsed into a tree and written out again.
+fn parse_line(text: &str) -> std::result::Result<Record, String> {
+    let raw: BTreeMap<String, Box<RawValue>> =
+        serde_json::from_str(text).map_err(|e| format!("not a JSON object: {e}"))?;
+    let mut fields = Map::new();
+    let mut prediction = None;
+    for (key, value) in raw {
+        if key == "prediction" {
+            prediction = Some(value);
+        } else {
+            let parsed: Value = serde_json::from_str(value.get())
+                .map_err(|e| format!("`{key}` could not be read: {e}"))?;
+            fields.insert(key, parsed);
+        }
+    }
+    let prediction = prediction.ok_or("the key `prediction` is missing")?;
+    if !prediction.get().trim_start().starts_with('{') {
+        return Err("`prediction` must be a JSON object".into());
+    }
+    let batch = batch_from_fields(&fields, Value::Null).map_err(|e| e.to_string())?;
+    Ok(Record {
+        first: first_written(batch)?,
+        prediction_json: prediction.get().to_owned(),
+    })
 }
 
 /// The message of an error that refuses one record, or the error itself when it is
@@ -76,10 +117,10 @@ fn write_one(
     tx: &Transaction,
     versions: &mut Versions,
     search: &mut Pending,
-    first: &Batch,
+    record: &Record,
 ) -> Result<()> {
-    let ids = versions.ids(tx, &first.recipe)?;
-    batches::insert_record(tx, ids, first, search).map(|_| ())
+    let ids = versions.ids(tx, &record.first.recipe)?;
+    batches::insert_record(tx, ids, &record.first, &record.prediction_json, search).map(|_| ())
 }
 
 fn write_chunk(tx: &Transaction, items: &[Item], careful: bool) -> Result<ImportReport> {
@@ -88,22 +129,22 @@ fn write_chunk(tx: &Transaction, items: &[Item], careful: bool) -> Result<Import
     let mut versions = Versions::default();
     let mut search = Pending::default();
     for (number, item) in items {
-        let first = match item {
+        let record = match item {
             Err(why) => {
                 report.errors.push((*number, why.clone()));
                 continue;
             }
-            Ok(first) => first,
+            Ok(record) => record,
         };
-        if batches::exists(tx, &first.code)? {
+        if batches::exists(tx, &record.first.code)? {
             report.skipped_existing += 1;
         } else if !careful {
-            write_one(tx, &mut versions, &mut search, first)?;
+            write_one(tx, &mut versions, &mut search, record)?;
             report.imported += 1;
         } else {
             tx.execute_batch("SAVEPOINT import_record")?;
             let queued = search.len();
-            match write_one(tx, &mut versions, &mut search, first) {
+            match write_one(tx, &mut versions, &mut search, record) {
                 Ok(()) => {
                     tx.execute_batch("RELEASE import_record")?;
                     report.imported += 1;
@@ -148,7 +189,7 @@ impl Store {
             let items: Vec<Item> = part
                 .iter()
                 .enumerate()
-                .map(|(i, b)| (start * CHUNK + i + 1, first_written(b.clone())))
+                .map(|(i, b)| (start * CHUNK + i + 1, record(b.clone())))
                 .collect();
             merge(&mut report, self.import_chunk(&items)?);
         }

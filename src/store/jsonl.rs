@@ -97,11 +97,20 @@ fn objects<'a>(obj: &'a Map<String, Value>, key: &str) -> Result<Vec<&'a Map<Str
         .collect()
 }
 
-/// Reads a batch from its public JSON object, checking every field.
-pub fn batch_from_json(v: &Value) -> Result<Batch> {
-    let o = v
-        .as_object()
-        .ok_or_else(|| bad("a batch must be a JSON object".into()))?;
+/// Reads a batch from its public JSON object, checking every field. Takes the
+/// value, so the analysis snapshot (the bulk of it) is moved, not copied.
+pub fn batch_from_json(v: Value) -> Result<Batch> {
+    let Value::Object(mut o) = v else {
+        return Err(bad("a batch must be a JSON object".into()));
+    };
+    let prediction = o
+        .remove("prediction")
+        .ok_or_else(|| bad("the key `prediction` is missing".into()))?;
+    batch_from_fields(&o, prediction)
+}
+
+/// Reads a batch from the fields of its JSON object other than `prediction`.
+pub(crate) fn batch_from_fields(o: &Map<String, Value>, prediction: Value) -> Result<Batch> {
     let status_text = text(o, "status")?;
     let status = Status::parse(&status_text).ok_or_else(|| {
         bad(format!(
@@ -195,7 +204,7 @@ pub fn batch_from_json(v: &Value) -> Result<Batch> {
         measurements,
         notes,
         amendments,
-        prediction: field(o, "prediction")?.clone(),
+        prediction,
     })
 }
 
