@@ -11,7 +11,7 @@ use std::collections::BTreeMap;
 use serde::Serialize;
 
 use crate::catalog::{Catalog, CatalogError, suggest_text};
-use crate::model::{Recipe, SoluteKind, Style};
+use crate::model::{Recipe, SoluteKind, Style, TempUnit};
 
 pub use mix::Mix;
 pub use targets::{StyleTargets, targets_for};
@@ -76,6 +76,8 @@ pub struct Options {
     pub cabinet_temp_c: f64,
     /// Freezer temperature (°C).
     pub freezer_temp_c: f64,
+    /// The unit temperatures are written in inside warning messages.
+    pub temp_unit: TempUnit,
 }
 
 impl Default for Options {
@@ -85,6 +87,7 @@ impl Default for Options {
             at_temps_c: Vec::new(),
             cabinet_temp_c: DEFAULT_CABINET_TEMP_C,
             freezer_temp_c: DEFAULT_FREEZER_TEMP_C,
+            temp_unit: TempUnit::Celsius,
         }
     }
 }
@@ -288,7 +291,7 @@ fn analyze_with(
         warnings: Vec::new(),
         cautions: Vec::new(),
     };
-    analysis.warnings = warnings::warnings(&analysis, &mix);
+    analysis.warnings = warnings::warnings(&analysis, &mix, options.temp_unit);
     analysis.cautions = warnings::cautions(&analysis, &mix);
     Ok(analysis)
 }

@@ -3,7 +3,7 @@
 
 use serde::Serialize;
 
-use crate::model::{Category, Style};
+use crate::model::{Category, Style, TempUnit};
 
 use super::{Analysis, Mix, targets_for};
 
@@ -42,12 +42,9 @@ pub const HARD_FROZEN_FRACTION: f64 = 0.80;
 /// Share of sweeteners as glucose above which a mix tends to granulate (common practice).
 pub const DEXTROSE_GRANULATION_SHARE: f64 = 0.25;
 
-fn fmt_temp(t: f64) -> String {
-    format!("{t:.1} °C")
-}
-
 /// The warnings for an analysis, most serious first.
-pub fn warnings(a: &Analysis, mix: &Mix) -> Vec<Warning> {
+pub fn warnings(a: &Analysis, mix: &Mix, unit: TempUnit) -> Vec<Warning> {
+    let fmt_temp = |t: f64| unit.format(t);
     let mut w = Vec::new();
     let mut add = |code, severity, message: String| {
         w.push(Warning {
@@ -109,7 +106,7 @@ pub fn warnings(a: &Analysis, mix: &Mix) -> Vec<Warning> {
         let t = fmt_temp(a.cabinet.temp_c);
         let serve = a
             .serving_temp_c
-            .map_or("below -60 °C".to_string(), fmt_temp);
+            .map_or_else(|| format!("below {}", fmt_temp(-60.0)), fmt_temp);
         if f < SOFT_FROZEN_FRACTION {
             add(
                 "soft-at-cabinet",

@@ -113,15 +113,17 @@ fn report_round(
 
 /// Runs `gelu report`.
 pub fn run(args: &ReportArgs) -> anyhow::Result<ExitCode> {
-    let options = Options {
-        serving_target: args.serving_target,
-        at_temps_c: args.at.clone(),
-        ..Options::default()
-    };
-    let unit = if args.fahrenheit {
+    // JSON carries °C only, its messages included.
+    let unit = if args.fahrenheit && !args.json {
         TempUnit::Fahrenheit
     } else {
         TempUnit::Celsius
+    };
+    let options = Options {
+        serving_target: args.serving_target,
+        at_temps_c: args.at.clone(),
+        temp_unit: unit,
+        ..Options::default()
     };
     let stdout = std::io::stdout();
     let mut out = BufWriter::new(stdout.lock());

@@ -3,6 +3,8 @@
 
 mod recipe;
 mod solute;
+mod units;
 
 pub use recipe::{Amount, Line, Recipe, Style};
 pub use solute::{Category, Ingredient, Solute, SoluteKind};
+pub use units::TempUnit;

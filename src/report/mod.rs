@@ -6,38 +6,7 @@ pub mod chart;
 pub mod json;
 pub mod text;
 
-/// Which temperature scale to show (JSON is always °C).
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
-pub enum TempUnit {
-    /// Degrees Celsius.
-    #[default]
-    Celsius,
-    /// Degrees Fahrenheit.
-    Fahrenheit,
-}
-
-impl TempUnit {
-    /// `temp_c` (°C) in this unit.
-    pub fn from_c(self, temp_c: f64) -> f64 {
-        match self {
-            TempUnit::Celsius => temp_c,
-            TempUnit::Fahrenheit => temp_c * 9.0 / 5.0 + 32.0,
-        }
-    }
-
-    /// The unit's symbol.
-    pub fn symbol(self) -> &'static str {
-        match self {
-            TempUnit::Celsius => "°C",
-            TempUnit::Fahrenheit => "°F",
-        }
-    }
-
-    /// `temp_c` formatted in this unit with one decimal, e.g. "-13.0 °C".
-    pub fn format(self, temp_c: f64) -> String {
-        format!("{:.1} {}", self.from_c(temp_c), self.symbol())
-    }
-}
+pub use crate::model::TempUnit;
 
 /// Parses a temperature as typed on the command line: a number in °C, or with
 /// a `C` or `F` suffix (`-18`, `-18C`, `0F`, `0 °F`). Returns °C.
@@ -55,10 +24,7 @@ pub fn parse_temp_c(text: &str) -> Result<f64, String> {
     if !v.is_finite() {
         return Err(format!("`{text}` is not a finite temperature"));
     }
-    let c = match unit {
-        TempUnit::Celsius => v,
-        TempUnit::Fahrenheit => (v - 32.0) * 5.0 / 9.0,
-    };
+    let c = unit.to_c(v);
     if !(-60.0..=0.0).contains(&c) {
         return Err(format!(
             "{text} is {c:.1} °C: give a temperature between 0 °C and -60 °C, where mixes freeze"

@@ -12,31 +12,22 @@ pub const OZ_PER_LB: f64 = 16.0;
 
 /// °C to the display unit.
 pub fn temp_value(temp_c: f64, unit: TempUnit) -> f64 {
-    match unit {
-        TempUnit::Celsius => temp_c,
-        TempUnit::Fahrenheit => temp_c * 9.0 / 5.0 + 32.0,
-    }
+    unit.from_c(temp_c)
 }
 
 /// The display unit back to °C.
 pub fn temp_to_c(value: f64, unit: TempUnit) -> f64 {
-    match unit {
-        TempUnit::Celsius => value,
-        TempUnit::Fahrenheit => (value - 32.0) * 5.0 / 9.0,
-    }
+    unit.to_c(value)
 }
 
 /// The symbol of a temperature unit.
 pub fn temp_symbol(unit: TempUnit) -> &'static str {
-    match unit {
-        TempUnit::Celsius => "°C",
-        TempUnit::Fahrenheit => "°F",
-    }
+    unit.symbol()
 }
 
 /// A temperature (°C) as text in the display unit, e.g. "-13.0 °C".
 pub fn fmt_temp(temp_c: f64, unit: TempUnit) -> String {
-    format!("{:.1} {}", temp_value(temp_c, unit), temp_symbol(unit))
+    unit.format(temp_c)
 }
 
 /// An optional temperature; "below -60 °C" style text when absent.

@@ -60,15 +60,7 @@ impl Screen {
     }
 }
 
-/// How temperatures are shown.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
-pub enum TempUnit {
-    /// Degrees Celsius.
-    #[default]
-    Celsius,
-    /// Degrees Fahrenheit.
-    Fahrenheit,
-}
+pub use crate::model::TempUnit;
 
 /// How masses are shown.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
@@ -327,6 +319,7 @@ impl State {
             at_temps_c: Vec::new(),
             cabinet_temp_c: self.settings.cabinet_temp_c,
             freezer_temp_c: self.settings.freezer_temp_c,
+            temp_unit: self.settings.temp_unit,
         }
     }
 
