@@ -207,29 +207,36 @@ pub fn parse_recipe_with(
                 .map_err(|(span, message)| ctx.err(span, message))
         })
         .collect::<Result<Vec<_>, _>>()?;
-    // Validate the user's own items, pointing at the one at fault.
-    let extended = catalog
-        .with_additions(&solutes, &ingredients)
-        .map_err(|e| {
-            let id = catalog_error_id(&e);
-            let span = doc
-                .solute
-                .iter()
-                .map(|s| &s.get_ref().id)
-                .chain(doc.ingredient.iter().map(|i| &i.get_ref().id))
-                .find(|sid| sid.get_ref() == id)
-                .map_or(0..0, |sid| sid.span());
-            ctx.err(span, e.to_string())
-        })?;
+    // Validate the user's own items, pointing at the one at fault. (Without any, the
+    // catalog is used as it is: no copy per file.)
+    let extended;
+    let catalog = if solutes.is_empty() && ingredients.is_empty() {
+        catalog
+    } else {
+        extended = catalog
+            .with_additions(&solutes, &ingredients)
+            .map_err(|e| {
+                let id = catalog_error_id(&e);
+                let span = doc
+                    .solute
+                    .iter()
+                    .map(|s| &s.get_ref().id)
+                    .chain(doc.ingredient.iter().map(|i| &i.get_ref().id))
+                    .find(|sid| sid.get_ref() == id)
+                    .map_or(0..0, |sid| sid.span());
+                ctx.err(span, e.to_string())
+            })?;
+        &extended
+    };
     let mut lines = Vec::with_capacity(doc.line.len());
     for l in &doc.line {
-        lines.push(line_from_doc(&ctx, l, &extended)?);
+        lines.push(line_from_doc(&ctx, l, catalog)?);
     }
     let total: f64 = lines
         .iter()
         .map(|l: &Line| {
             l.amount.grams(
-                extended
+                catalog
                     .ingredient(&l.ingredient)
                     .map_or(1.0, |i| i.density_g_ml),
             )

@@ -10,7 +10,6 @@ use std::collections::BTreeMap;
 use std::io::Write;
 
 use serde::Serialize;
-use serde_json::value::RawValue;
 
 use crate::analysis::{Analysis, CurvePoint, Severity};
 
@@ -75,7 +74,6 @@ struct AnalysisDoc<'a> {
     cabinet: Point,
     freezer: Point,
     freeze_concentration_limit_c: Option<f64>,
-    ice_curve: Box<RawValue>,
     at: Vec<Point>,
     allergens: &'a [String],
     warnings: Vec<WarningDoc<'a>>,
@@ -120,7 +118,6 @@ fn doc(a: &Analysis) -> AnalysisDoc<'_> {
         cabinet: (&a.cabinet).into(),
         freezer: (&a.freezer).into(),
         freeze_concentration_limit_c: opt(a.glass_limit_temp_c),
-        ice_curve: curve_json(&a.ice_curve),
         at: a.at.iter().map(Point::from).collect(),
         allergens: &a.allergens,
         warnings: a
@@ -136,62 +133,91 @@ fn doc(a: &Analysis) -> AnalysisDoc<'_> {
     }
 }
 
-/// Appends `x` rounded to `places` decimals, as JSON (the same number that
-/// `round(x, places)` printed by serde_json gives, without its cost).
-fn push_fixed(out: &mut String, x: f64, places: u32) {
-    use std::fmt::Write as _;
+/// Appends `x` rounded to `places` decimals (at most 9), as JSON: the same
+/// number that `round(x, places)` printed by serde_json gives, without its cost.
+fn push_fixed(out: &mut Vec<u8>, x: f64, places: u32) {
     if !x.is_finite() {
-        out.push_str("null");
+        out.extend_from_slice(b"null");
         return;
     }
-    let scale = 10i64.pow(places);
-    let n = (x * scale as f64).round() as i64;
-    if n < 0 {
-        out.push('-');
+    let places = places.min(9);
+    let scale = 10u64.pow(places);
+    let n = (x * scale as f64).round();
+    if n < 0.0 {
+        out.push(b'-');
     }
-    let (whole, frac) = (
-        n.unsigned_abs() / scale as u64,
-        n.unsigned_abs() % scale as u64,
-    );
-    let _ = write!(out, "{whole}.");
+    let n = n.abs() as u64;
+    let (whole, mut frac) = (n / scale, n % scale);
+    push_uint(out, whole);
+    out.push(b'.');
     if frac == 0 {
-        out.push('0');
+        out.push(b'0');
         return;
     }
-    let digits = format!("{frac:0width$}", width = places as usize);
-    out.push_str(digits.trim_end_matches('0'));
+    let mut digits = [b'0'; 9];
+    for d in digits[..places as usize].iter_mut().rev() {
+        *d = b'0' + (frac % 10) as u8;
+        frac /= 10;
+    }
+    let used = digits[..places as usize]
+        .iter()
+        .rposition(|d| *d != b'0')
+        .map_or(1, |k| k + 1);
+    out.extend_from_slice(&digits[..used]);
 }
 
-/// The freezing curve as a JSON array, formatted by hand: it is most of the
-/// document, and this keeps a report of thousands of files fast.
-fn curve_json(points: &[CurvePoint]) -> Box<RawValue> {
-    let mut s = String::with_capacity(2 + points.len() * 44);
-    s.push('[');
+fn push_uint(out: &mut Vec<u8>, mut n: u64) {
+    let mut buf = [0u8; 20];
+    let mut k = buf.len();
+    loop {
+        k -= 1;
+        buf[k] = b'0' + (n % 10) as u8;
+        n /= 10;
+        if n == 0 {
+            break;
+        }
+    }
+    out.extend_from_slice(&buf[k..]);
+}
+
+/// Appends `,"ice_curve":[...]` to `out`. The curve is most of the document, so
+/// it is formatted by hand, which keeps a report of thousands of files fast.
+fn push_curve(out: &mut Vec<u8>, points: &[CurvePoint]) {
+    out.extend_from_slice(b",\"ice_curve\":[");
     for (k, p) in points.iter().enumerate() {
         if k > 0 {
-            s.push(',');
+            out.push(b',');
         }
-        s.push_str("{\"temp_c\":");
-        push_fixed(&mut s, p.temp_c, 3);
-        s.push_str(",\"frozen_fraction\":");
-        push_fixed(&mut s, p.frozen_fraction, 5);
-        s.push('}');
+        out.extend_from_slice(b"{\"temp_c\":");
+        push_fixed(out, p.temp_c, 3);
+        out.extend_from_slice(b",\"frozen_fraction\":");
+        push_fixed(out, p.frozen_fraction, 5);
+        out.push(b'}');
     }
-    s.push(']');
-    // The text is valid JSON by construction; fall back to an empty array all the same.
-    RawValue::from_string(s)
-        .unwrap_or_else(|_| RawValue::from_string("[]".into()).unwrap_or_default())
+    out.push(b']');
+}
+
+/// The analysis as compact JSON bytes (no newline). serde writes every field
+/// but the curve; the curve is appended before the closing brace.
+pub fn analysis_json_bytes(a: &Analysis) -> Vec<u8> {
+    let mut out = Vec::with_capacity(6 << 10);
+    // Writing plain numbers, strings and maps into memory cannot fail.
+    if serde_json::to_writer(&mut out, &doc(a)).is_err() || out.pop() != Some(b'}') {
+        return b"{}".to_vec();
+    }
+    push_curve(&mut out, &a.ice_curve);
+    out.push(b'}');
+    out
 }
 
 /// Writes the analysis as one compact JSON object (no newline).
-pub fn write_analysis_json(a: &Analysis, out: &mut impl Write) -> serde_json::Result<()> {
-    serde_json::to_writer(out, &doc(a))
+pub fn write_analysis_json(a: &Analysis, out: &mut impl Write) -> std::io::Result<()> {
+    out.write_all(&analysis_json_bytes(a))
 }
 
 /// The analysis as a JSON value (for storing as a snapshot).
 pub fn analysis_json(a: &Analysis) -> serde_json::Value {
-    // Serialising plain numbers, strings and maps cannot fail.
-    serde_json::to_value(doc(a)).unwrap_or(serde_json::Value::Null)
+    serde_json::from_slice(&analysis_json_bytes(a)).unwrap_or(serde_json::Value::Null)
 }
 
 #[cfg(test)]
@@ -209,13 +235,13 @@ mod tests {
             (0.7, 5),
             (-39.9999999, 3),
         ] {
-            let mut s = String::new();
+            let mut s = Vec::new();
             push_fixed(&mut s, x, places);
-            let back: f64 = s.parse().unwrap();
-            assert_eq!(back, round(x, places as i32), "{x} -> {s}");
+            let back: f64 = String::from_utf8(s.clone()).unwrap().parse().unwrap();
+            assert_eq!(back, round(x, places as i32), "{x} -> {s:?}");
         }
-        let mut s = String::new();
+        let mut s = Vec::new();
         push_fixed(&mut s, f64::NAN, 3);
-        assert_eq!(s, "null");
+        assert_eq!(s, b"null");
     }
 }
