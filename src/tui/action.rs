@@ -37,6 +37,21 @@ macro_rules! commands {
     };
 }
 
+impl Command {
+    /// Whether the command moves a list cursor (every list screen handles these alike).
+    pub fn moves_cursor(self) -> bool {
+        matches!(
+            self,
+            Command::Up
+                | Command::Down
+                | Command::PageUp
+                | Command::PageDown
+                | Command::First
+                | Command::Last
+        )
+    }
+}
+
 commands! {
     Quit => "quit", "Leave gelu (asks first when there are unsaved changes)";
     Help => "help", "Show every key of the current mode";

@@ -45,12 +45,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
     }
     let len = state.batches.rows.len();
     match command {
-        Command::Up
-        | Command::Down
-        | Command::PageUp
-        | Command::PageDown
-        | Command::First
-        | Command::Last => {
+        c if c.moves_cursor() => {
             state.batches.cursor = move_cursor(state.batches.cursor, len, command);
             return prefetch(state);
         }

@@ -12,12 +12,7 @@ use super::recipe::{ask_new_line_amount, matches_words, prompt};
 pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
     let len = state.ingredients.matches.len();
     match command {
-        Command::Up
-        | Command::Down
-        | Command::PageUp
-        | Command::PageDown
-        | Command::First
-        | Command::Last => {
+        c if c.moves_cursor() => {
             state.ingredients.cursor = move_cursor(state.ingredients.cursor, len, command);
         }
         Command::Search => {

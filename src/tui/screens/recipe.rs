@@ -20,12 +20,7 @@ pub const UNDO_DEPTH: usize = 200;
 pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
     let lines = state.recipe.recipe.lines.len();
     match command {
-        Command::Up
-        | Command::Down
-        | Command::PageUp
-        | Command::PageDown
-        | Command::First
-        | Command::Last => {
+        c if c.moves_cursor() => {
             state.recipe.cursor = move_cursor(state.recipe.cursor, lines, command);
         }
         Command::AddLine => open_ingredient_picker(state),

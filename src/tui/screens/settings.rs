@@ -11,12 +11,7 @@ use super::recipe::prompt;
 pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
     let len = SettingField::ALL.len();
     match command {
-        Command::Up
-        | Command::Down
-        | Command::PageUp
-        | Command::PageDown
-        | Command::First
-        | Command::Last => {
+        c if c.moves_cursor() => {
             state.settings_cursor = move_cursor(state.settings_cursor, len, command);
             Vec::new()
         }
