@@ -61,6 +61,26 @@ fn a_new_database_opens_on_a_seeded_recipe() {
 }
 
 #[test]
+fn the_workspace_reopens_the_recipe_last_worked_on() {
+    let dir = tempdir();
+    let db = dir.path().join("log.db");
+    {
+        // A new log opens on the house vanilla.
+        let (mut s, mut services) = open(&db, None);
+        assert_eq!(s.recipe.recipe.name, "Harbour vanilla");
+        run(&mut s, &mut services, Command::OpenRecipe);
+        type_text(&mut s, "lemon sorbet");
+        run(&mut s, &mut services, Command::Confirm);
+        assert_eq!(s.recipe.recipe.name, "Quay lemon sorbet");
+    }
+    let (s, _) = open(&db, None);
+    assert_eq!(
+        s.recipe.recipe.name, "Quay lemon sorbet",
+        "reopened after a restart"
+    );
+}
+
+#[test]
 fn settings_and_own_ingredients_survive_a_restart() {
     let dir = tempdir();
     let db = dir.path().join("log.db");

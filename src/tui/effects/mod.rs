@@ -21,6 +21,11 @@ use super::state::{BatchPage, BatchQuery, BatchRequest, RecipeSource};
 
 pub use convert::{load_settings, settings_pairs};
 
+/// Setting that holds the name of the recipe last opened or saved in the database.
+const LAST_RECIPE_KEY: &str = "workspace.last_recipe";
+/// The sample recipe a new batch log opens on.
+const FIRST_RUN_RECIPE: &str = "Harbour vanilla";
+
 /// The files and database the workspace works on.
 pub struct Services {
     store: Store,
@@ -51,10 +56,17 @@ impl Services {
         if let Some(path) = &launch.file {
             let (recipe, text) = read_recipe(path).map_err(|e| anyhow::anyhow!("{e}"))?;
             actions.push(loaded_file(path, recipe, text));
-        } else if let Ok(recipes) = self.store.recipes()
-            && let Some(first) = recipes.first()
-        {
-            actions.push(self.load(&first.name));
+        } else if let Ok(recipes) = self.store.recipes() {
+            // Reopen the recipe last worked on; on a new log, the house vanilla if seeded.
+            let remembered = self.store.get_setting(LAST_RECIPE_KEY).ok().flatten();
+            let pick = [remembered.as_deref(), Some(FIRST_RUN_RECIPE)]
+                .into_iter()
+                .flatten()
+                .find(|name| recipes.iter().any(|r| r.name == *name))
+                .or_else(|| recipes.first().map(|r| r.name.as_str()));
+            if let Some(name) = pick {
+                actions.push(self.load(name));
+            }
         }
         Ok(actions)
     }
@@ -82,10 +94,12 @@ impl Services {
             } => vec![save_file(&path, original.as_deref(), recipe)?],
             Effect::SaveVersion { name, recipe } => {
                 let renamed = name != recipe.name;
+                let saved_name = recipe.name.clone();
                 let mut action = save_version(s, recipe)?;
                 if renamed && let Action::Saved { message, .. } = &mut action {
                     message.push_str(" (a new name makes a new recipe in the database)");
                 }
+                self.remember_recipe(&saved_name);
                 vec![action]
             }
             Effect::SaveNewRecipe(recipe) => {
@@ -95,7 +109,10 @@ impl Services {
                         recipe.name
                     );
                 }
-                vec![save_version(s, recipe)?]
+                let saved_name = recipe.name.clone();
+                let action = save_version(s, recipe)?;
+                self.remember_recipe(&saved_name);
+                vec![action]
             }
             Effect::ListRecipes => vec![Action::RecipeList(
                 s.recipes()?
@@ -106,7 +123,13 @@ impl Services {
                     })
                     .collect(),
             )],
-            Effect::LoadRecipe(name) => vec![self.load(&name)],
+            Effect::LoadRecipe(name) => {
+                let loaded = self.load(&name);
+                if matches!(loaded, Action::RecipeLoaded { .. }) {
+                    self.remember_recipe(&name);
+                }
+                vec![loaded]
+            }
             Effect::SaveSettings(settings) => {
                 for (key, value) in settings_pairs(&settings) {
                     s.set_setting(key, &value)?;
@@ -168,6 +191,12 @@ impl Services {
                 changed(code, "Amendment recorded; the first record stays on file.")
             }
         })
+    }
+
+    /// Remembers the recipe last opened or saved from the database, to reopen it next
+    /// time. Best effort: a failure here must not stop the work at hand.
+    fn remember_recipe(&mut self, name: &str) {
+        let _ = self.store.set_setting(LAST_RECIPE_KEY, name);
     }
 
     fn load(&self, name: &str) -> Action {
