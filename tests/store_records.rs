@@ -565,3 +565,70 @@ fn custom_solutes_and_ingredients_are_kept_by_id() {
     assert_eq!(store.custom_solutes().unwrap(), [solute]);
     assert_eq!(store.custom_ingredients().unwrap(), [ingredient]);
 }
+
+#[test]
+fn prefix_searches_page_by_time_even_when_records_were_imported_out_of_order() {
+    // The fast path for a prefix with many matches reads the newest index entries
+    // (highest batch ids) and proves the page against the batches it did not read.
+    // Imports of old records break the link between id and time. Three logs: ids in
+    // time order (the fast path holds), ids against time, and ids in time order but
+    // for one very new record written first (both must fall back). Every page must
+    // be the newest by time. The imports are dated after the template batch.
+    for order in ["with time", "against time", "one new record first"] {
+        let (_dir, mut store) = fresh();
+        let template = store
+            .new_batch(&planned(
+                "harbour-vanilla.toml",
+                "2kg",
+                1,
+                "S-0",
+                "template",
+            ))
+            .unwrap();
+        let n = 3_000i64;
+        let made = |i: i64| {
+            let minutes = match order {
+                "against time" => n - i,
+                "one new record first" if i == 1 => 10 * n,
+                _ => i,
+            };
+            Utc.with_ymd_and_hms(2027, 1, 1, 0, 0, 0).unwrap() + chrono::Duration::minutes(minutes)
+        };
+        let list: Vec<_> = (0..n)
+            .map(|i| {
+                let mut b = template.clone();
+                b.code = format!("B-OLD-{i:05}");
+                b.made_at = made(i);
+                b.notes[0].text = if i % 5 != 0 {
+                    format!("glossy {i}")
+                } else {
+                    format!("dull {i}")
+                };
+                b.notes[0].written_at = made(i);
+                b
+            })
+            .collect();
+        assert_eq!(store.import_batches(&list).unwrap().imported, n as usize);
+        let mut expected: Vec<(chrono::DateTime<Utc>, String)> = (0..n)
+            .filter(|i| i % 5 != 0)
+            .map(|i| (made(i), format!("B-OLD-{i:05}")))
+            .collect();
+        expected.sort_by(|a, b| b.cmp(a));
+        // Two pages of 50 through the cursor, as the workspace scrolls.
+        let mut filter = BatchFilter {
+            search: Some("gloss*".into()),
+            limit: 50,
+            ..Default::default()
+        };
+        let first = store.list_batches(&filter).unwrap();
+        filter.after = first.last().map(|b| b.cursor.clone());
+        let second = store.list_batches(&filter).unwrap();
+        let got: Vec<String> = first
+            .iter()
+            .chain(&second)
+            .map(|b| b.code.clone())
+            .collect();
+        let want: Vec<String> = expected.iter().take(100).map(|e| e.1.clone()).collect();
+        assert_eq!(got, want, "ids {order}");
+    }
+}
