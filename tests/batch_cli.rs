@@ -7,22 +7,17 @@ use std::path::{Path, PathBuf};
 use assert_cmd::Command;
 use serde_json::Value;
 
-const VANILLA: &str = concat!(
-    env!("CARGO_MANIFEST_DIR"),
-    "/sample-recipes/harbour-vanilla.toml"
-);
+mod batch_common;
+
+use batch_common::VANILLA;
+
 const LIQUEUR: &str = concat!(
     env!("CARGO_MANIFEST_DIR"),
     "/sample-recipes/strawberry-liqueur.toml"
 );
 
 fn gelu(db: &Path) -> Command {
-    let mut cmd = Command::new(env!("CARGO_BIN_EXE_gelu"));
-    cmd.arg("--db")
-        .arg(db)
-        .env_remove("GELU_DB")
-        .env("USER", "tester");
-    cmd
+    Command::from_std(batch_common::gelu(db))
 }
 
 fn run_ok(db: &Path, args: &[&str]) -> String {

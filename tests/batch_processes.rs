@@ -7,19 +7,9 @@ use std::path::Path;
 use std::process::{Command, Stdio};
 use std::time::{Duration, Instant};
 
-const VANILLA: &str = concat!(
-    env!("CARGO_MANIFEST_DIR"),
-    "/sample-recipes/harbour-vanilla.toml"
-);
+mod batch_common;
 
-fn gelu(db: &Path) -> Command {
-    let mut cmd = Command::new(env!("CARGO_BIN_EXE_gelu"));
-    cmd.arg("--db")
-        .arg(db)
-        .env_remove("GELU_DB")
-        .env("USER", "tester");
-    cmd
-}
+use batch_common::{VANILLA, gelu};
 
 fn new_batch(db: &Path, note: &str) -> Command {
     let mut cmd = gelu(db);
