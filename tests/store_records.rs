@@ -12,6 +12,9 @@ use gelu::store::plan::{BatchSize, Plan, plan_batch};
 use gelu::store::{BatchFilter, Edit, MeasurementKind, NewBatch, Status, Store, StoreError};
 use rusqlite::Connection;
 
+mod store_common;
+use store_common::{export, search};
+
 fn sample(file: &str) -> (&'static str, gelu::model::Recipe) {
     let (name, text) = SAMPLE_RECIPES
         .iter()
@@ -279,17 +282,7 @@ fn the_list_filters_searches_and_pages_newest_first() {
     };
     assert_eq!(store.list_batches(&window).unwrap().len(), 2);
 
-    let search = |text: &str| {
-        store
-            .list_batches(&BatchFilter {
-                search: Some(text.into()),
-                ..Default::default()
-            })
-            .unwrap()
-            .into_iter()
-            .map(|b| b.code)
-            .collect::<Vec<_>>()
-    };
+    let search = |text: &str| search(&store, text);
     assert_eq!(search("ajar"), ["B-20261107-0001"]);
     assert_eq!(search("SUC-05"), ["B-20261105-0001"]);
     assert_eq!(
@@ -321,14 +314,6 @@ fn the_list_filters_searches_and_pages_newest_first() {
     }
     let expected: Vec<String> = all.iter().map(|b| b.code.clone()).collect();
     assert_eq!(paged, expected);
-}
-
-fn export(store: &Store) -> String {
-    let mut out = Vec::new();
-    store
-        .export_jsonl(&BatchFilter::default(), &mut out)
-        .unwrap();
-    String::from_utf8(out).unwrap()
 }
 
 #[test]

@@ -1,13 +1,17 @@
-//! Writing batch records: a new batch (with its recipe version, lines, first note
-//! and analysis snapshot), measurements, notes, sign-off and amendments. Each call
-//! is one transaction.
+//! Changing the batch log one request at a time: a new batch (with its recipe
+//! version, lines, first note and analysis snapshot), measurements, notes, sign-off
+//! and amendments. Each call is one transaction; the rows themselves are written by
+//! [`records`].
+
+use std::collections::HashSet;
 
 use chrono::{DateTime, Utc};
 use rusqlite::{Connection, OptionalExtension, Transaction, params};
 
 use super::amend::{self, Edit};
 use super::error::{Result, StoreError};
-use super::recipes::{self, VersionIds};
+use super::recipes;
+use super::records::{self, NewRecord, check_name};
 use super::search::{self, Pending, Slot};
 use super::types::{
     Amendment, Batch, BatchLine, Measurement, MeasurementKind, NewBatch, Note, Status,
@@ -38,13 +42,17 @@ pub(crate) fn find(conn: &Connection, code: &str) -> Result<(i64, String)> {
     })
 }
 
-/// Whether a batch with this code exists.
-pub(crate) fn exists(conn: &Connection, code: &str) -> Result<bool> {
-    Ok(conn
-        .prepare_cached("SELECT 1 FROM batches WHERE code = ?1")?
-        .query_row([code], |_| Ok(()))
-        .optional()?
-        .is_some())
+/// Which of `codes` are already in the log (one query for them all).
+pub(crate) fn existing_codes(conn: &Connection, codes: &[&str]) -> Result<HashSet<String>> {
+    let list = serde_json::to_string(codes)
+        .map_err(|e| StoreError::Invalid(format!("batch codes could not be listed: {e}")))?;
+    let mut stmt = conn.prepare_cached(
+        "SELECT code FROM batches WHERE code IN (SELECT value FROM json_each(?1))",
+    )?;
+    let found = stmt
+        .query_map([list], |r| r.get(0))?
+        .collect::<rusqlite::Result<_>>()?;
+    Ok(found)
 }
 
 /// How many rows of `table` (a literal name, never user input) belong to a batch.
@@ -54,152 +62,6 @@ fn count(tx: &Transaction, table: &'static str, batch_id: i64) -> Result<usize> 
         .prepare_cached(&sql)?
         .query_row([batch_id], |r| r.get(0))?;
     Ok(n as usize)
-}
-
-fn check_finite(what: &str, value: f64) -> Result<()> {
-    if value.is_finite() {
-        Ok(())
-    } else {
-        Err(StoreError::Invalid(format!(
-            "{what} must be a number, not {value}"
-        )))
-    }
-}
-
-fn check_name(what: &str, name: &str) -> Result<()> {
-    if name.trim().is_empty() {
-        Err(StoreError::Invalid(format!("{what} must not be empty")))
-    } else {
-        Ok(())
-    }
-}
-
-/// Writes one whole record as first written (before amendments), then its trail.
-/// `batch.operator` and `batch.lines` must be the values before the amendments.
-/// `prediction_json` is the analysis snapshot as JSON text (`batch.prediction` is
-/// not read, so an import can pass the text it read without parsing it). Its search
-/// entries are queued on `search`, to be written with the transaction.
-pub(crate) fn insert_record(
-    tx: &Transaction,
-    ids: VersionIds,
-    batch: &Batch,
-    prediction_json: &str,
-    search: &mut Pending,
-) -> Result<i64> {
-    check_name("the operator", &batch.operator)?;
-    check_finite("the batch size", batch.size_g)?;
-    if batch.size_g <= 0.0 {
-        return Err(StoreError::Invalid(format!(
-            "a batch size of {} g is not possible; give a size above zero",
-            batch.size_g
-        )));
-    }
-    let now = values::time_text(&values::now());
-    tx.prepare_cached(
-        "INSERT INTO batches (code, recipe_id, recipe_version_id, made_at, size_g, operator,
-                              status, created_at)
-         VALUES (?1, ?2, ?3, ?4, ?5, ?6, 'draft', ?7)",
-    )?
-    .execute(params![
-        batch.code,
-        ids.recipe_id,
-        ids.version_id,
-        values::time_text(&batch.made_at),
-        batch.size_g,
-        batch.operator,
-        now
-    ])?;
-    let id = tx.last_insert_rowid();
-    let mut line_stmt = tx.prepare_cached(
-        "INSERT INTO batch_lines (batch_id, position, ingredient, planned_g, actual_g, lot)
-         VALUES (?1, ?2, ?3, ?4, ?5, ?6)",
-    )?;
-    for (i, line) in batch.lines.iter().enumerate() {
-        check_finite("a planned mass", line.planned_g)?;
-        if let Some(a) = line.actual_g {
-            check_finite("an actual mass", a)?;
-        }
-        line_stmt.execute(params![
-            id,
-            i as i64 + 1,
-            line.ingredient,
-            line.planned_g,
-            line.actual_g,
-            line.lot
-        ])?;
-        search.push(id, Slot::Lot(i + 1), &line.lot);
-    }
-    tx.prepare_cached("INSERT INTO batch_predictions (batch_id, analysis) VALUES (?1, ?2)")?
-        .execute(params![id, prediction_json])?;
-    for (i, note) in batch.notes.iter().enumerate() {
-        insert_note(tx, id, note)?;
-        search.push(id, Slot::Note(i + 1), &note.text);
-    }
-    for m in &batch.measurements {
-        insert_measurement(tx, id, m)?;
-    }
-    if batch.status != Status::Draft {
-        let at = batch.finalized_at.unwrap_or(batch.made_at);
-        let by = batch.finalized_by.clone().unwrap_or_default();
-        tx.prepare_cached(
-            "UPDATE batches SET status = 'final', finalized_at = ?2, finalized_by = ?3 WHERE id = ?1",
-        )?
-        .execute(params![id, values::time_text(&at), by])?;
-    }
-    for (i, a) in batch.amendments.iter().enumerate() {
-        insert_amendment(tx, id, a)?;
-        search.push(id, Slot::Amendment(i + 1), &search::amendment_text(a));
-    }
-    Ok(id)
-}
-
-fn insert_note(tx: &Transaction, batch_id: i64, note: &Note) -> Result<()> {
-    check_name("a note", &note.text)?;
-    tx.prepare_cached(
-        "INSERT INTO batch_notes (batch_id, text, written_at, written_by) VALUES (?1, ?2, ?3, ?4)",
-    )?
-    .execute(params![
-        batch_id,
-        note.text,
-        values::time_text(&note.written_at),
-        note.by
-    ])?;
-    Ok(())
-}
-
-fn insert_measurement(tx: &Transaction, batch_id: i64, m: &Measurement) -> Result<()> {
-    check_finite(m.kind.as_str(), m.value)?;
-    tx.prepare_cached(
-        "INSERT INTO measurements (batch_id, kind, value, unit, taken_at, taken_by)
-         VALUES (?1, ?2, ?3, ?4, ?5, ?6)",
-    )?
-    .execute(params![
-        batch_id,
-        m.kind.as_str(),
-        m.value,
-        m.kind.unit(),
-        values::time_text(&m.taken_at),
-        m.by
-    ])?;
-    Ok(())
-}
-
-fn insert_amendment(tx: &Transaction, batch_id: i64, a: &Amendment) -> Result<()> {
-    check_name("the reason for an amendment", &a.reason)?;
-    let changes = serde_json::to_string(&a.changes)
-        .map_err(|e| StoreError::Invalid(format!("the changes could not be written: {e}")))?;
-    tx.prepare_cached(
-        "INSERT INTO amendments (batch_id, amended_at, amended_by, reason, changes)
-         VALUES (?1, ?2, ?3, ?4, ?5)",
-    )?
-    .execute(params![
-        batch_id,
-        values::time_text(&a.amended_at),
-        a.by,
-        a.reason,
-        changes
-    ])?;
-    Ok(())
 }
 
 impl Store {
@@ -239,7 +101,13 @@ impl Store {
                 prediction: new.prediction.clone(),
             };
             let mut entries = Pending::default();
-            insert_record(tx, ids, &batch, &new.prediction.to_string(), &mut entries)?;
+            let prediction_json = new.prediction.to_string();
+            let record = NewRecord {
+                ids,
+                batch: &batch,
+                prediction_json: &prediction_json,
+            };
+            records::insert_records(tx, &[record], &mut entries)?;
             entries.write(tx)?;
             Ok(code)
         })?;
@@ -266,10 +134,8 @@ impl Store {
             .collect();
         self.write(|tx| {
             let (id, _) = find(tx, code)?;
-            for m in &list {
-                insert_measurement(tx, id, m)?;
-            }
-            Ok(())
+            let rows: Vec<(i64, &Measurement)> = list.iter().map(|m| (id, m)).collect();
+            records::insert_measurements(tx, &rows)
         })?;
         Ok(list)
     }
@@ -297,7 +163,7 @@ impl Store {
         };
         self.write(|tx| {
             let (id, _) = find(tx, code)?;
-            insert_note(tx, id, &note)?;
+            records::insert_notes(tx, &[(id, &note)])?;
             let mut entries = Pending::default();
             entries.push(id, Slot::Note(count(tx, "batch_notes", id)?), &note.text);
             entries.write(tx)
@@ -353,7 +219,7 @@ impl Store {
                 reason: reason.to_owned(),
                 changes,
             };
-            insert_amendment(tx, id, &a)?;
+            records::insert_amendments(tx, &[(id, &a)])?;
             let mut entries = Pending::default();
             let n = count(tx, "amendments", id)?;
             entries.push(id, Slot::Amendment(n), &search::amendment_text(&a));

@@ -1,28 +1,35 @@
 //! Importing batch records made elsewhere (JSON Lines or [`Batch`] values). A code
 //! already present is skipped and counted; a refused record is reported by its line
-//! number and nothing of it is written. Lines are written in chunks, one transaction
-//! each: a chunk is first tried whole, and only if some record in it is refused by
-//! the database is it written again record by record behind savepoints. (Savepoints
-//! on every record would make the full-text index flush once per record.)
+//! number and nothing of it is written. Lines are read and checked on a second
+//! thread and written in transactions of a few thousand records: a transaction is
+//! first tried whole, all its new records in a few multi-row statements, and only if
+//! the database refuses something in it is it written again record by record behind
+//! savepoints. (Savepoints on every record would make the full-text index flush once
+//! per record.) The insert-time guard triggers are lifted inside each transaction;
+//! see [`super::guards`].
 
-use std::collections::{BTreeMap, HashMap};
+use std::collections::{HashMap, HashSet};
 use std::io::BufRead;
 
 use rusqlite::Transaction;
-use serde_json::value::RawValue;
-use serde_json::{Map, Value};
+use serde_json::Value;
 
 use super::Store;
 use super::batches::{self, original_record};
 use super::error::{Result, StoreError, is_busy};
-use super::jsonl::batch_from_fields;
+use super::guards;
+use super::jsonl::read_batch;
 use super::recipes::{self, VersionIds};
+use super::records::{self, NewRecord};
 use super::search::Pending;
 use super::types::{Batch, ImportReport, RecipeVersion};
 
-/// How many records share one transaction (a crash loses at most one chunk, and
+/// About how many records share one transaction (a crash loses at most one, and
 /// running the import again skips what was written).
 const CHUNK: usize = 5_000;
+
+/// How many records the reader hands to the writer at a time.
+const PIECE: usize = 250;
 
 /// A record ready to write: as first written (before its amendments), with its
 /// analysis snapshot as JSON text.
@@ -60,27 +67,13 @@ fn record(batch: Batch) -> std::result::Result<Record, String> {
 /// Reads one line. The analysis snapshot, most of the line, is kept as the text
 /// it was (checked to be JSON) rather than parsed into a tree and written out again.
 fn parse_line(text: &str) -> std::result::Result<Record, String> {
-    let raw: BTreeMap<String, Box<RawValue>> =
-        serde_json::from_str(text).map_err(|e| format!("not a JSON object: {e}"))?;
-    let mut fields = Map::new();
-    let mut prediction = None;
-    for (key, value) in raw {
-        if key == "prediction" {
-            prediction = Some(value);
-        } else {
-            let parsed: Value = serde_json::from_str(value.get())
-                .map_err(|e| format!("`{key}` could not be read: {e}"))?;
-            fields.insert(key, parsed);
-        }
-    }
-    let prediction = prediction.ok_or("the key `prediction` is missing")?;
-    if !prediction.get().trim_start().starts_with('{') {
-        return Err("`prediction` must be a JSON object".into());
-    }
-    let batch = batch_from_fields(&fields, Value::Null).map_err(|e| e.to_string())?;
+    let (batch, prediction) = read_batch(text.trim_end()).map_err(|e| match e {
+        StoreError::Invalid(why) => why,
+        other => other.to_string(),
+    })?;
     Ok(Record {
         first: first_written(batch)?,
-        prediction_json: prediction.get().to_owned(),
+        prediction_json: prediction.to_owned(),
     })
 }
 
@@ -94,8 +87,8 @@ fn refusal(e: StoreError) -> std::result::Result<String, StoreError> {
     }
 }
 
-/// Recipe versions already found or added in this chunk, so that the thousands of
-/// batches of one version are not each hashed and looked up again.
+/// Recipe versions already found or added in this transaction, so that the
+/// thousands of batches of one version are not each hashed and looked up again.
 #[derive(Default)]
 struct Versions(HashMap<(String, u32), (RecipeVersion, VersionIds)>);
 
@@ -113,54 +106,87 @@ impl Versions {
     }
 }
 
-fn write_one(
-    tx: &Transaction,
-    versions: &mut Versions,
-    search: &mut Pending,
-    record: &Record,
-) -> Result<()> {
-    let ids = versions.ids(tx, &record.first.recipe)?;
-    batches::insert_record(tx, ids, &record.first, &record.prediction_json, search).map(|_| ())
+/// What one transaction of an import has done so far. It is rolled back with the
+/// transaction, so a new one is made for every attempt.
+#[derive(Default)]
+struct Tally {
+    report: ImportReport,
+    versions: Versions,
+    search: Pending,
+    /// Codes written by this transaction, so a code twice in one file is written once.
+    written: HashSet<String>,
 }
 
-fn write_chunk(tx: &Transaction, items: &[Item], careful: bool) -> Result<ImportReport> {
-    let mut report = ImportReport::default();
-    // Rolled back with the chunk, so never shared between attempts.
-    let mut versions = Versions::default();
-    let mut search = Pending::default();
+fn write_one(tx: &Transaction, tally: &mut Tally, record: &Record) -> Result<()> {
+    let new = NewRecord {
+        ids: tally.versions.ids(tx, &record.first.recipe)?,
+        batch: &record.first,
+        prediction_json: &record.prediction_json,
+    };
+    records::insert_records(tx, &[new], &mut tally.search).map(|_| ())
+}
+
+/// Writes some records of a transaction: the new ones all at once, or (`careful`)
+/// one at a time behind savepoints, so that a record the database refuses is
+/// reported and the others kept.
+fn write_items(tx: &Transaction, items: &[Item], careful: bool, tally: &mut Tally) -> Result<()> {
+    let codes: Vec<&str> = items
+        .iter()
+        .filter_map(|(_, item)| item.as_ref().ok().map(|r| r.first.code.as_str()))
+        .collect();
+    let present = batches::existing_codes(tx, &codes)?;
+    let mut fresh: Vec<NewRecord> = Vec::new();
     for (number, item) in items {
         let record = match item {
             Err(why) => {
-                report.errors.push((*number, why.clone()));
+                tally.report.errors.push((*number, why.clone()));
                 continue;
             }
             Ok(record) => record,
         };
-        if batches::exists(tx, &record.first.code)? {
-            report.skipped_existing += 1;
+        let code = &record.first.code;
+        if present.contains(code) || tally.written.contains(code) {
+            tally.report.skipped_existing += 1;
         } else if !careful {
-            write_one(tx, &mut versions, &mut search, record)?;
-            report.imported += 1;
+            fresh.push(NewRecord {
+                ids: tally.versions.ids(tx, &record.first.recipe)?,
+                batch: &record.first,
+                prediction_json: &record.prediction_json,
+            });
+            tally.written.insert(code.clone());
         } else {
             tx.execute_batch("SAVEPOINT import_record")?;
-            let queued = search.len();
-            match write_one(tx, &mut versions, &mut search, record) {
+            let queued = tally.search.len();
+            match write_one(tx, tally, record) {
                 Ok(()) => {
                     tx.execute_batch("RELEASE import_record")?;
-                    report.imported += 1;
+                    tally.report.imported += 1;
+                    tally.written.insert(code.clone());
                 }
                 Err(e) => {
                     tx.execute_batch("ROLLBACK TO import_record; RELEASE import_record")?;
                     // The versions it added and its search entries are gone with it.
-                    versions.0.clear();
-                    search.truncate(queued);
-                    report.errors.push((*number, refusal(e)?));
+                    tally.versions.0.clear();
+                    tally.search.truncate(queued);
+                    tally.report.errors.push((*number, refusal(e)?));
                 }
             }
         }
     }
-    search.write(tx)?;
-    Ok(report)
+    tally.report.imported += records::insert_records(tx, &fresh, &mut tally.search)?.len();
+    Ok(())
+}
+
+/// Writes every piece of one transaction again, one record at a time.
+fn write_carefully(tx: &Transaction, pieces: &[Vec<Item>]) -> Result<ImportReport> {
+    guards::without_insert_guards(tx, || {
+        let mut tally = Tally::default();
+        for piece in pieces {
+            write_items(tx, piece, true, &mut tally)?;
+        }
+        tally.search.write(tx)?;
+        Ok(tally.report)
+    })
 }
 
 fn merge(into: &mut ImportReport, part: ImportReport) {
@@ -170,60 +196,115 @@ fn merge(into: &mut ImportReport, part: ImportReport) {
 }
 
 impl Store {
-    fn import_chunk(&mut self, items: &[Item]) -> Result<ImportReport> {
-        match self.write(|tx| write_chunk(tx, items, false)) {
-            Ok(report) => Ok(report),
-            Err(e) => {
-                // Something was refused: nothing of the chunk was kept; redo it carefully.
-                refusal(e)?;
-                self.write(|tx| write_chunk(tx, items, true))
-            }
+    /// Writes the pieces `next` hands out, in transactions of about [`CHUNK`]
+    /// records. Each piece is written as soon as it comes, so a reader on another
+    /// thread checks the next piece meanwhile. A transaction is first tried whole;
+    /// if the database refuses something in it, it is rolled back and written again
+    /// record by record.
+    fn import_pieces(
+        &mut self,
+        mut next: impl FnMut() -> Option<Vec<Item>>,
+    ) -> Result<ImportReport> {
+        let mut report = ImportReport::default();
+        let mut finished = false;
+        while !finished {
+            let Some(first) = next() else { break };
+            let mut taken = vec![first];
+            let attempt = self.write(|tx| {
+                guards::without_insert_guards(tx, || {
+                    let mut tally = Tally::default();
+                    // A retry after a busy file starts with what was taken before.
+                    for piece in &taken {
+                        write_items(tx, piece, false, &mut tally)?;
+                    }
+                    while !finished && taken.iter().map(Vec::len).sum::<usize>() < CHUNK {
+                        match next() {
+                            Some(piece) => {
+                                taken.push(piece);
+                                write_items(tx, &taken[taken.len() - 1], false, &mut tally)?;
+                            }
+                            None => finished = true,
+                        }
+                    }
+                    tally.search.write(tx)?;
+                    Ok(tally.report)
+                })
+            });
+            let part = match attempt {
+                Ok(part) => part,
+                Err(e) => {
+                    // Something was refused: nothing of this transaction was kept.
+                    refusal(e)?;
+                    self.write(|tx| write_carefully(tx, &taken))?
+                }
+            };
+            merge(&mut report, part);
         }
+        Ok(report)
     }
 
     /// Writes batches recorded elsewhere, as an import does; a refused batch is
     /// reported by its 1-based position and nothing of it is written.
     pub fn import_batches(&mut self, list: &[Batch]) -> Result<ImportReport> {
-        let mut report = ImportReport::default();
-        for (start, part) in list.chunks(CHUNK).enumerate() {
-            let items: Vec<Item> = part
-                .iter()
+        let mut pieces = list.chunks(PIECE).enumerate().map(|(start, part)| {
+            part.iter()
                 .enumerate()
-                .map(|(i, b)| (start * CHUNK + i + 1, record(b.clone())))
-                .collect();
-            merge(&mut report, self.import_chunk(&items)?);
-        }
-        Ok(report)
+                .map(|(i, b)| (start * PIECE + i + 1, record(b.clone())))
+                .collect::<Vec<Item>>()
+        });
+        self.import_pieces(|| pieces.next())
     }
 
     /// Reads JSON Lines of batches. A code already present is skipped and counted; a
-    /// malformed line is reported by number and nothing of it is written.
-    pub fn import_jsonl(&mut self, input: &mut dyn BufRead) -> Result<ImportReport> {
-        let mut report = ImportReport::default();
-        let mut items: Vec<Item> = Vec::with_capacity(CHUNK);
-        let mut number = 0;
-        let mut line = String::new();
-        loop {
-            line.clear();
-            let read = input
-                .read_line(&mut line)
-                .map_err(|source| StoreError::Io {
-                    path: "the import file".into(),
-                    source,
-                })?;
-            if read > 0 {
-                number += 1;
-                if !line.trim().is_empty() {
-                    items.push((number, parse_line(&line)));
-                }
+    /// malformed line is reported by number and nothing of it is written. Lines are
+    /// read and checked on a second thread while the ones before are written.
+    pub fn import_jsonl(&mut self, input: &mut (dyn BufRead + Send)) -> Result<ImportReport> {
+        std::thread::scope(|scope| {
+            // A few pieces wait while one is written: memory stays near one transaction.
+            let (pieces, parsed) = std::sync::mpsc::sync_channel::<Vec<Item>>(4);
+            let reader = scope.spawn(move || read_pieces(input, &pieces));
+            let written = self.import_pieces(|| parsed.recv().ok());
+            // After an error the reader stops at its next piece, as no one listens.
+            drop(parsed);
+            let read = reader.join().expect("the import reader panicked");
+            let report = written?;
+            read.map(|()| report)
+        })
+    }
+}
+
+/// Reads and checks lines, handing them on a piece at a time; stops early when the
+/// writer has stopped listening.
+fn read_pieces(
+    input: &mut (dyn BufRead + Send),
+    pieces: &std::sync::mpsc::SyncSender<Vec<Item>>,
+) -> Result<()> {
+    let mut items: Vec<Item> = Vec::with_capacity(PIECE);
+    let mut number = 0;
+    let mut line = String::new();
+    loop {
+        line.clear();
+        let read = input
+            .read_line(&mut line)
+            .map_err(|source| StoreError::Io {
+                path: "the import file".into(),
+                source,
+            })?;
+        if read > 0 {
+            number += 1;
+            if !line.trim().is_empty() {
+                items.push((number, parse_line(&line)));
             }
-            if items.len() >= CHUNK || (read == 0 && !items.is_empty()) {
-                merge(&mut report, self.import_chunk(&items)?);
-                items.clear();
-            }
-            if read == 0 {
-                return Ok(report);
-            }
+        }
+        if (items.len() >= PIECE || (read == 0 && !items.is_empty()))
+            && pieces
+                .send(std::mem::replace(&mut items, Vec::with_capacity(PIECE)))
+                .is_err()
+        {
+            return Ok(());
+        }
+        if read == 0 {
+            return Ok(());
         }
     }
 }

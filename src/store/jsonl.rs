@@ -4,12 +4,14 @@
 
 use std::io::Write;
 
-use serde_json::{Map, Value, json};
+use chrono::{DateTime, Utc};
+use serde::Deserialize;
+use serde_json::value::RawValue;
+use serde_json::{Value, json};
 
 use super::error::{Result, StoreError};
 use super::types::{
-    Amendment, Batch, BatchFilter, BatchLine, Change, Measurement, MeasurementKind, Note,
-    RecipeVersion, Status,
+    Amendment, Batch, BatchFilter, BatchLine, Measurement, Note, RecipeVersion, Status,
 };
 use super::{Store, values};
 
@@ -47,165 +49,101 @@ pub fn batch_json(b: &Batch) -> Value {
     })
 }
 
+/// A batch's JSON object as read: the public keys, with the analysis snapshot kept
+/// as the text it was (checked to be JSON, not parsed into a tree). Unknown keys
+/// are ignored, so a newer gelu's export can be read.
+#[derive(Deserialize)]
+struct Wire<'a> {
+    code: String,
+    recipe: String,
+    recipe_version: u32,
+    recipe_hash: String,
+    recipe_text: String,
+    #[serde(deserialize_with = "values::deserialize_time")]
+    made_at: DateTime<Utc>,
+    size_g: f64,
+    operator: String,
+    status: Status,
+    #[serde(default, deserialize_with = "values::deserialize_optional_time")]
+    finalized_at: Option<DateTime<Utc>>,
+    #[serde(default)]
+    finalized_by: Option<String>,
+    lines: Vec<BatchLine>,
+    measurements: Vec<Measurement>,
+    notes: Vec<Note>,
+    amendments: Vec<Amendment>,
+    #[serde(borrow)]
+    prediction: &'a RawValue,
+}
+
 fn bad(what: String) -> StoreError {
     StoreError::Invalid(what)
 }
 
-fn field<'a>(obj: &'a Map<String, Value>, key: &str) -> Result<&'a Value> {
-    obj.get(key)
-        .ok_or_else(|| bad(format!("the key `{key}` is missing")))
-}
-
-fn text(obj: &Map<String, Value>, key: &str) -> Result<String> {
-    field(obj, key)?
-        .as_str()
-        .map(str::to_owned)
-        .ok_or_else(|| bad(format!("`{key}` must be a string")))
-}
-
-fn number(obj: &Map<String, Value>, key: &str) -> Result<f64> {
-    field(obj, key)?
-        .as_f64()
-        .ok_or_else(|| bad(format!("`{key}` must be a number")))
-}
-
-fn optional<T>(
-    obj: &Map<String, Value>,
-    key: &str,
-    read: impl Fn(&Map<String, Value>, &str) -> Result<T>,
-) -> Result<Option<T>> {
-    match obj.get(key) {
-        None | Some(Value::Null) => Ok(None),
-        Some(_) => read(obj, key).map(Some),
+/// Why `text` could not be read as a batch, naming the key at fault where possible.
+fn explain(text: &str, plain: serde_json::Error) -> String {
+    let mut de = serde_json::Deserializer::from_str(text);
+    match serde_path_to_error::deserialize::<_, Wire>(&mut de) {
+        Err(e) => match e.path().to_string().as_str() {
+            // The whole record, or a key that could not be read.
+            "." | "?" => e.into_inner().to_string(),
+            path => format!("`{path}`: {}", e.into_inner()),
+        },
+        // Only trailing text after the object is left.
+        Ok(_) => plain.to_string(),
     }
 }
 
-fn time(obj: &Map<String, Value>, key: &str) -> Result<chrono::DateTime<chrono::Utc>> {
-    values::parse_time(&text(obj, key)?).map_err(|e| bad(format!("`{key}`: {e}")))
-}
-
-fn objects<'a>(obj: &'a Map<String, Value>, key: &str) -> Result<Vec<&'a Map<String, Value>>> {
-    field(obj, key)?
-        .as_array()
-        .ok_or_else(|| bad(format!("`{key}` must be a list")))?
-        .iter()
-        .enumerate()
-        .map(|(i, v)| {
-            v.as_object()
-                .ok_or_else(|| bad(format!("item {} of `{key}` must be an object", i + 1)))
-        })
-        .collect()
-}
-
-/// Reads a batch from its public JSON object, checking every field. Takes the
-/// value, so the analysis snapshot (the bulk of it) is moved, not copied.
-pub fn batch_from_json(v: Value) -> Result<Batch> {
-    let Value::Object(mut o) = v else {
-        return Err(bad("a batch must be a JSON object".into()));
-    };
-    let prediction = o
-        .remove("prediction")
-        .ok_or_else(|| bad("the key `prediction` is missing".into()))?;
-    batch_from_fields(&o, prediction)
-}
-
-/// Reads a batch from the fields of its JSON object other than `prediction`.
-pub(crate) fn batch_from_fields(o: &Map<String, Value>, prediction: Value) -> Result<Batch> {
-    let status_text = text(o, "status")?;
-    let status = Status::parse(&status_text).ok_or_else(|| {
-        bad(format!(
-            "`status` is `{status_text}`; use draft, final or amended"
-        ))
-    })?;
-    let version = field(o, "recipe_version")?
-        .as_u64()
-        .and_then(|n| u32::try_from(n).ok())
-        .filter(|&n| n >= 1)
-        .ok_or_else(|| bad("`recipe_version` must be a whole number from 1".into()))?;
-    let lines = objects(o, "lines")?
-        .into_iter()
-        .map(|l| {
-            Ok(BatchLine {
-                ingredient: text(l, "ingredient")?,
-                planned_g: number(l, "planned_g")?,
-                actual_g: optional(l, "actual_g", number)?,
-                lot: text(l, "lot")?,
-            })
-        })
-        .collect::<Result<Vec<_>>>()?;
-    let measurements = objects(o, "measurements")?
-        .into_iter()
-        .map(|m| {
-            let kind_text = text(m, "kind")?;
-            let kind = MeasurementKind::parse(&kind_text).ok_or_else(|| {
-                bad(format!(
-                    "measurement kind `{kind_text}` is unknown; known kinds: {}",
-                    MeasurementKind::names()
-                ))
-            })?;
-            Ok(Measurement {
-                kind,
-                value: number(m, "value")?,
-                taken_at: time(m, "taken_at")?,
-                by: text(m, "by")?,
-            })
-        })
-        .collect::<Result<Vec<_>>>()?;
-    let notes = objects(o, "notes")?
-        .into_iter()
-        .map(|n| {
-            Ok(Note {
-                text: text(n, "text")?,
-                written_at: time(n, "written_at")?,
-                by: text(n, "by")?,
-            })
-        })
-        .collect::<Result<Vec<_>>>()?;
-    let amendments = objects(o, "amendments")?
-        .into_iter()
-        .map(|a| {
-            let changes: Vec<Change> = serde_json::from_value(field(a, "changes")?.clone())
-                .map_err(|e| bad(format!("the changes of an amendment: {e}")))?;
-            Ok(Amendment {
-                amended_at: time(a, "amended_at")?,
-                by: text(a, "by")?,
-                reason: text(a, "reason")?,
-                changes,
-            })
-        })
-        .collect::<Result<Vec<_>>>()?;
-    let derived = match (status, amendments.is_empty()) {
+/// Reads one batch from its public JSON object, checking every field; a refusal
+/// names the key at fault. Returns the batch with `prediction` left null, and the
+/// analysis snapshot as the JSON text it was in `text`.
+pub fn read_batch(text: &str) -> Result<(Batch, &str)> {
+    if !text.trim_start().starts_with('{') {
+        return Err(bad("a batch record must be a JSON object".into()));
+    }
+    // The plain reader is the fast path; only a refused record is read again, with
+    // the path to the key at fault tracked, to say where it went wrong.
+    let wire: Wire = serde_json::from_str(text).map_err(|plain| bad(explain(text, plain)))?;
+    if wire.recipe_version < 1 {
+        return Err(bad("`recipe_version` must be a whole number from 1".into()));
+    }
+    let prediction = wire.prediction.get();
+    if !prediction.starts_with('{') {
+        return Err(bad("`prediction` must be a JSON object".into()));
+    }
+    let derived = match (wire.status, wire.amendments.is_empty()) {
         (Status::Draft, _) => Status::Draft,
         (_, true) => Status::Final,
         (_, false) => Status::Amended,
     };
-    if derived != status {
+    if derived != wire.status {
         return Err(bad(format!(
             "`status` is {} but the record reads as {} (amended means final with amendments)",
-            status.as_str(),
+            wire.status.as_str(),
             derived.as_str()
         )));
     }
-    Ok(Batch {
-        code: text(o, "code")?,
+    let batch = Batch {
+        code: wire.code,
         recipe: RecipeVersion {
-            recipe: text(o, "recipe")?,
-            version,
-            content_hash: text(o, "recipe_hash")?,
-            text: text(o, "recipe_text")?,
+            recipe: wire.recipe,
+            version: wire.recipe_version,
+            content_hash: wire.recipe_hash,
+            text: wire.recipe_text,
         },
-        made_at: time(o, "made_at")?,
-        size_g: number(o, "size_g")?,
-        operator: text(o, "operator")?,
-        status,
-        finalized_at: optional(o, "finalized_at", time)?,
-        finalized_by: optional(o, "finalized_by", text)?,
-        lines,
-        measurements,
-        notes,
-        amendments,
-        prediction,
-    })
+        made_at: wire.made_at,
+        size_g: wire.size_g,
+        operator: wire.operator,
+        status: wire.status,
+        finalized_at: wire.finalized_at,
+        finalized_by: wire.finalized_by,
+        lines: wire.lines,
+        measurements: wire.measurements,
+        notes: wire.notes,
+        amendments: wire.amendments,
+        prediction: Value::Null,
+    };
+    Ok((batch, prediction))
 }
 
 /// Calls `each` for every batch matching `filter`, newest first, one page at a time.

@@ -82,7 +82,7 @@ pub fn connect(path: &Path) -> Result<Connection> {
     conn.pragma_update(None, "foreign_keys", true)?;
     // 64 MiB of page cache: a large import then writes each page once, not on every spill.
     conn.pragma_update(None, "cache_size", -65_536)?;
-    conn.set_prepared_statement_cache_capacity(64);
+    conn.set_prepared_statement_cache_capacity(128);
     // Savepoint and statement journals in memory (they never hold committed data).
     conn.pragma_update(None, "temp_store", "MEMORY")?;
     Ok(conn)

@@ -4,9 +4,13 @@
 //! gathered and written together at the end of a transaction, so FTS5 keeps them
 //! in memory and flushes once, instead of once per statement.
 //!
-//! Each entry's rowid is `batch_id * 2^20` plus a slot (a line's position; 2^18 plus
-//! a note's number; 2^19 plus an amendment's number), so a match names its batch
-//! without a lookup: `rowid >> 20`.
+//! Each entry's rowid is `batch_id * 2^20` plus a slot, so a match names its batch
+//! without a lookup: `rowid >> 20`. The slots: 0 for the lots of all lines as first
+//! recorded, in one entry; 2^18 plus a note's number; 2^19 plus an amendment's
+//! number. (Logs written before schema version 2 hold one entry per line instead,
+//! at the line's position; they are searched the same way.) One entry for all the
+//! lots, not one per line, keeps an import's index writes to two or three a batch,
+//! and lets a search for two lot codes find the batch that used both.
 
 use rusqlite::Transaction;
 
@@ -21,8 +25,8 @@ const AMENDMENTS: i64 = 1 << 19;
 /// Which part of a batch an entry indexes.
 #[derive(Debug, Clone, Copy)]
 pub(crate) enum Slot {
-    /// The lot of the line at this 1-based position.
-    Lot(usize),
+    /// The lots of every line, as first recorded.
+    Lots,
     /// The n-th note (1-based).
     Note(usize),
     /// The n-th amendment (1-based).
@@ -31,7 +35,7 @@ pub(crate) enum Slot {
 
 fn rowid(batch_id: i64, slot: Slot) -> i64 {
     let offset = match slot {
-        Slot::Lot(p) => p as i64,
+        Slot::Lots => 0,
         Slot::Note(n) => NOTES + n as i64,
         Slot::Amendment(n) => AMENDMENTS + n as i64,
     };
@@ -73,7 +77,10 @@ impl Pending {
         self.0.truncate(len);
     }
 
-    /// Writes the queued entries; call last in the transaction.
+    /// Writes the queued entries; call last in the transaction. One row per
+    /// statement on purpose: a multi-row INSERT opens a savepoint on the FTS5 table,
+    /// and FTS5 flushes its in-memory index at every savepoint, which made a bulk
+    /// import twice as slow here.
     pub fn write(self, tx: &Transaction) -> Result<()> {
         let mut stmt =
             tx.prepare_cached("INSERT INTO batch_search (rowid, body) VALUES (?1, ?2)")?;
@@ -137,10 +144,15 @@ mod tests {
 
     #[test]
     fn slots_of_one_batch_stay_inside_its_range() {
-        for slot in [Slot::Lot(1), Slot::Note(1), Slot::Amendment(9_999)] {
+        for slot in [Slot::Lots, Slot::Note(1), Slot::Amendment(9_999)] {
             let id = rowid(42, slot);
             assert_eq!(id >> 20, 42);
         }
-        assert_ne!(rowid(1, Slot::Lot(3)), rowid(1, Slot::Note(3)));
+        let slots = [
+            rowid(1, Slot::Lots),
+            rowid(1, Slot::Note(1)),
+            rowid(1, Slot::Amendment(1)),
+        ];
+        assert!(slots[0] < slots[1] && slots[1] < slots[2]);
     }
 }

@@ -190,25 +190,41 @@ impl MeasurementKind {
     }
 }
 
-/// One measurement taken on a batch.
-#[derive(Debug, Clone, PartialEq)]
+impl<'de> Deserialize<'de> for MeasurementKind {
+    fn deserialize<D: serde::Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        super::values::deserialize_text(d, "a measurement kind as a string", |text| {
+            MeasurementKind::parse(text).ok_or_else(|| {
+                format!(
+                    "measurement kind `{text}` is unknown; known kinds: {}",
+                    MeasurementKind::names()
+                )
+            })
+        })
+    }
+}
+
+/// One measurement taken on a batch. Read from its JSON object (the key `unit` is
+/// implied by the kind and not read).
+#[derive(Debug, Clone, PartialEq, Deserialize)]
 pub struct Measurement {
     /// What was measured.
     pub kind: MeasurementKind,
     /// The value, in `kind.unit()`.
     pub value: f64,
     /// When it was taken.
+    #[serde(deserialize_with = "super::values::deserialize_time")]
     pub taken_at: DateTime<Utc>,
     /// Who took it.
     pub by: String,
 }
 
 /// A note on a batch (deviations, corrective actions, sensory remarks).
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, Deserialize)]
 pub struct Note {
     /// The text.
     pub text: String,
     /// When it was written.
+    #[serde(deserialize_with = "super::values::deserialize_time")]
     pub written_at: DateTime<Utc>,
     /// Who wrote it.
     pub by: String,
@@ -250,9 +266,10 @@ pub enum Change {
 }
 
 /// A correction of a batch record: a new entry that references it.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, Deserialize)]
 pub struct Amendment {
     /// When it was made.
+    #[serde(deserialize_with = "super::values::deserialize_time")]
     pub amended_at: DateTime<Utc>,
     /// Who made it.
     pub by: String,

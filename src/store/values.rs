@@ -1,7 +1,11 @@
 //! How values are written into the database: times as RFC 3339 UTC text with
 //! milliseconds (so text order is time order) and recipe texts' content hashes.
 
+use std::fmt;
+
 use chrono::{DateTime, SecondsFormat, Utc};
+use serde::Deserializer;
+use serde::de::{self, Visitor};
 use sha2::{Digest, Sha256};
 
 use super::error::{Result, StoreError};
@@ -19,13 +23,68 @@ pub fn time_text(t: &DateTime<Utc>) -> String {
 
 /// Parses an RFC 3339 time (any offset) into UTC.
 pub fn parse_time(text: &str) -> Result<DateTime<Utc>> {
+    read_time(text).map_err(StoreError::Invalid)
+}
+
+fn read_time(text: &str) -> std::result::Result<DateTime<Utc>, String> {
     DateTime::parse_from_rfc3339(text)
         .map(|t| t.with_timezone(&Utc))
-        .map_err(|e| {
-            StoreError::Invalid(format!(
-                "`{text}` is not an RFC 3339 time such as 2026-12-01T23:10:00Z ({e})"
-            ))
-        })
+        .map_err(|e| format!("`{text}` is not an RFC 3339 time such as 2026-12-01T23:10:00Z ({e})"))
+}
+
+/// A serde visitor for a JSON string that is converted as it is read, borrowed or
+/// not, without keeping a copy.
+struct Text<F>(&'static str, F);
+
+impl<T, F: FnOnce(&str) -> std::result::Result<T, String>> Visitor<'_> for Text<F> {
+    type Value = T;
+
+    fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+        f.write_str(self.0)
+    }
+
+    fn visit_str<E: de::Error>(self, v: &str) -> std::result::Result<T, E> {
+        (self.1)(v).map_err(E::custom)
+    }
+}
+
+/// Reads a JSON string through `read`; `expecting` says what a wrong type should have been.
+pub(crate) fn deserialize_text<'de, D: Deserializer<'de>, T>(
+    d: D,
+    expecting: &'static str,
+    read: impl FnOnce(&str) -> std::result::Result<T, String>,
+) -> std::result::Result<T, D::Error> {
+    d.deserialize_str(Text(expecting, read))
+}
+
+/// Reads an RFC 3339 time from JSON (for serde's `deserialize_with`).
+pub(crate) fn deserialize_time<'de, D: Deserializer<'de>>(
+    d: D,
+) -> std::result::Result<DateTime<Utc>, D::Error> {
+    deserialize_text(d, "an RFC 3339 time as a string", read_time)
+}
+
+/// Reads an optional RFC 3339 time (`null` or absent is none).
+pub(crate) fn deserialize_optional_time<'de, D: Deserializer<'de>>(
+    d: D,
+) -> std::result::Result<Option<DateTime<Utc>>, D::Error> {
+    struct Optional;
+    impl<'de> Visitor<'de> for Optional {
+        type Value = Option<DateTime<Utc>>;
+        fn expecting(&self, f: &mut fmt::Formatter) -> fmt::Result {
+            f.write_str("an RFC 3339 time as a string, or null")
+        }
+        fn visit_none<E: de::Error>(self) -> std::result::Result<Self::Value, E> {
+            Ok(None)
+        }
+        fn visit_some<D: Deserializer<'de>>(
+            self,
+            d: D,
+        ) -> std::result::Result<Self::Value, D::Error> {
+            deserialize_time(d).map(Some)
+        }
+    }
+    d.deserialize_option(Optional)
 }
 
 /// `sha256:` followed by the hex SHA-256 of `text`.
