@@ -153,3 +153,50 @@ fn search_finds_imported_lots_alone_or_together() {
         assert!(search(store, "M-2609-01 Z-0000").is_empty());
     }
 }
+
+/// Hands out `good` lines, then fails as a broken disk or pipe would.
+struct FailingAfter {
+    good: std::io::Cursor<Vec<u8>>,
+}
+
+impl std::io::Read for FailingAfter {
+    fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
+        match self.good.read(buf)? {
+            0 => Err(std::io::Error::other("the disk went away")),
+            n => Ok(n),
+        }
+    }
+}
+
+#[test]
+fn a_read_error_stops_the_import_with_an_error_and_a_rerun_completes_it() {
+    let dir = tempfile::tempdir().unwrap();
+    let mut source = fresh(dir.path(), "source.db");
+    let template = template(&mut source);
+    let lines: Vec<String> = (0..900)
+        .map(|i| {
+            let mut b = template.clone();
+            b.code = format!("B-READ-{i:04}");
+            batch_json(&b).to_string()
+        })
+        .collect();
+    let all = lines.join("\n") + "\n";
+    let mut other = fresh(dir.path(), "other.db");
+    let partial = lines[..600].join("\n") + "\n";
+    let mut failing = std::io::BufReader::new(FailingAfter {
+        good: std::io::Cursor::new(partial.into_bytes()),
+    });
+    let err = other.import_jsonl(&mut failing).unwrap_err();
+    assert!(err.to_string().contains("disk went away"), "{err}");
+    let written = other.list_batches(&BatchFilter::default()).unwrap().len();
+    assert!(written <= 600, "{written}");
+    assert!(other.check().unwrap().is_empty());
+
+    let rerun = other.import_jsonl(&mut all.as_bytes()).unwrap();
+    assert_eq!(rerun.imported + rerun.skipped_existing, 900);
+    assert_eq!(rerun.skipped_existing, written);
+    assert_eq!(
+        other.list_batches(&BatchFilter::default()).unwrap().len(),
+        900
+    );
+}

@@ -1,4 +1,5 @@
-//! The insert-time guard triggers, lifted for the length of one bulk write.
+//! The insert-time guards, lifted for the length of one bulk write: three triggers
+//! (inside its transaction) and foreign-key enforcement (on its connection).
 //!
 //! Three triggers in the schema check each new row: a batch's recipe version belongs
 //! to its recipe, no line is added to a final batch, and a final batch is never
@@ -12,7 +13,7 @@
 //! connection can write meanwhile (the transaction holds the write lock), none ever
 //! reads a schema without them, and if anything fails the rollback brings them back.
 
-use rusqlite::{OptionalExtension, Transaction};
+use rusqlite::{Connection, OptionalExtension, Transaction};
 
 use super::error::Result;
 
@@ -50,4 +51,47 @@ pub(crate) fn without_insert_guards<T>(
         tx.execute_batch(sql)?;
     }
     Ok(value)
+}
+
+/// Runs `work` with foreign keys unenforced on `conn`, then enforces them again.
+/// SQLite reads this setting per connection and only between transactions, so no
+/// other connection is affected and no transaction sees it change. An import uses
+/// it: each row it writes points at a batch of the same transaction (with the row id
+/// it was just given) or at a recipe version it has just looked up or added, and
+/// `gelu db check` runs SQLite's foreign-key check over the whole file.
+pub(crate) fn without_foreign_keys<T>(
+    conn: &mut Connection,
+    work: impl FnOnce(&mut Connection) -> Result<T>,
+) -> Result<T> {
+    conn.pragma_update(None, "foreign_keys", false)?;
+    let out = work(conn);
+    conn.pragma_update(None, "foreign_keys", true)?;
+    out
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::store::error::StoreError;
+
+    #[test]
+    fn foreign_keys_are_enforced_again_after_the_work_even_when_it_fails() {
+        let mut conn = Connection::open_in_memory().unwrap();
+        conn.execute_batch(
+            "PRAGMA foreign_keys = ON;
+             CREATE TABLE p (id INTEGER PRIMARY KEY);
+             CREATE TABLE c (p INTEGER REFERENCES p(id));",
+        )
+        .unwrap();
+        let failed: Result<()> = without_foreign_keys(&mut conn, |conn| {
+            conn.execute("INSERT INTO c VALUES (7)", [])?;
+            Err(StoreError::Invalid("stop".into()))
+        });
+        assert!(failed.is_err());
+        let on: bool = conn
+            .query_row("PRAGMA foreign_keys", [], |r| r.get(0))
+            .unwrap();
+        assert!(on);
+        assert!(conn.execute("INSERT INTO c VALUES (8)", []).is_err());
+    }
 }

@@ -5,23 +5,27 @@
 //! first tried whole, all its new records in a few multi-row statements, and only if
 //! the database refuses something in it is it written again record by record behind
 //! savepoints. (Savepoints on every record would make the full-text index flush once
-//! per record.) The insert-time guard triggers are lifted inside each transaction;
-//! see [`super::guards`].
+//! per record.) The insert-time guards are lifted while an import writes (see
+//! [`super::guards`]) and its checkpoints run on a third thread (see
+//! [`super::checkpoint`]).
 
 use std::collections::{HashMap, HashSet};
 use std::io::BufRead;
+use std::path::Path;
 
-use rusqlite::Transaction;
+use rusqlite::{Connection, Transaction};
 use serde_json::Value;
 
 use super::Store;
 use super::batches::{self, original_record};
+use super::checkpoint::{self, Checkpoints};
 use super::error::{Result, StoreError, is_busy};
 use super::guards;
 use super::jsonl::read_batch;
 use super::recipes::{self, VersionIds};
 use super::records::{self, NewRecord};
 use super::search::Pending;
+use super::tx;
 use super::types::{Batch, ImportReport, RecipeVersion};
 
 /// About how many records share one transaction (a crash loses at most one, and
@@ -195,52 +199,74 @@ fn merge(into: &mut ImportReport, part: ImportReport) {
     into.errors.extend(part.errors);
 }
 
+/// Writes the pieces `next` hands out, in transactions of about [`CHUNK`] records.
+/// Each piece is written as soon as it comes, so a reader on another thread checks
+/// the next piece meanwhile. A transaction is first tried whole; if the database
+/// refuses something in it, it is rolled back and written again record by record.
+fn write_pieces(
+    conn: &mut Connection,
+    path: &Path,
+    checkpoints: &Checkpoints,
+    mut next: impl FnMut() -> Option<Vec<Item>>,
+    mut spent: impl FnMut(Vec<Vec<Item>>),
+) -> Result<ImportReport> {
+    let mut report = ImportReport::default();
+    let mut finished = false;
+    while !finished {
+        let Some(first) = next() else { break };
+        let mut taken = vec![first];
+        checkpoints.before_transaction();
+        let attempt = tx::write(conn, path, |tx| {
+            guards::without_insert_guards(tx, || {
+                let mut tally = Tally::default();
+                // A retry after a busy file starts with what was taken before.
+                for piece in &taken {
+                    write_items(tx, piece, false, &mut tally)?;
+                }
+                while !finished && taken.iter().map(Vec::len).sum::<usize>() < CHUNK {
+                    match next() {
+                        Some(piece) => {
+                            taken.push(piece);
+                            write_items(tx, &taken[taken.len() - 1], false, &mut tally)?;
+                        }
+                        None => finished = true,
+                    }
+                }
+                tally.search.write(tx)?;
+                Ok(tally.report)
+            })
+        });
+        let part = match attempt {
+            Ok(part) => part,
+            Err(e) => {
+                // Something was refused: nothing of this transaction was kept.
+                refusal(e)?;
+                tx::write(conn, path, |tx| write_carefully(tx, &taken))?
+            }
+        };
+        checkpoints.committed();
+        merge(&mut report, part);
+        spent(taken);
+    }
+    Ok(report)
+}
+
 impl Store {
-    /// Writes the pieces `next` hands out, in transactions of about [`CHUNK`]
-    /// records. Each piece is written as soon as it comes, so a reader on another
-    /// thread checks the next piece meanwhile. A transaction is first tried whole;
-    /// if the database refuses something in it, it is rolled back and written again
-    /// record by record.
+    /// Runs an import's writes: foreign keys unenforced on this connection (every
+    /// row an import writes points at rows of the same transaction or at recipe
+    /// versions it has just looked up; see [`guards`]) and checkpoints on a second
+    /// thread (see [`checkpoint`]). Written pieces are handed to `spent`.
     fn import_pieces(
         &mut self,
-        mut next: impl FnMut() -> Option<Vec<Item>>,
+        next: impl FnMut() -> Option<Vec<Item>>,
+        spent: impl FnMut(Vec<Vec<Item>>),
     ) -> Result<ImportReport> {
-        let mut report = ImportReport::default();
-        let mut finished = false;
-        while !finished {
-            let Some(first) = next() else { break };
-            let mut taken = vec![first];
-            let attempt = self.write(|tx| {
-                guards::without_insert_guards(tx, || {
-                    let mut tally = Tally::default();
-                    // A retry after a busy file starts with what was taken before.
-                    for piece in &taken {
-                        write_items(tx, piece, false, &mut tally)?;
-                    }
-                    while !finished && taken.iter().map(Vec::len).sum::<usize>() < CHUNK {
-                        match next() {
-                            Some(piece) => {
-                                taken.push(piece);
-                                write_items(tx, &taken[taken.len() - 1], false, &mut tally)?;
-                            }
-                            None => finished = true,
-                        }
-                    }
-                    tally.search.write(tx)?;
-                    Ok(tally.report)
-                })
-            });
-            let part = match attempt {
-                Ok(part) => part,
-                Err(e) => {
-                    // Something was refused: nothing of this transaction was kept.
-                    refusal(e)?;
-                    self.write(|tx| write_carefully(tx, &taken))?
-                }
-            };
-            merge(&mut report, part);
-        }
-        Ok(report)
+        let path = self.path.clone();
+        guards::without_foreign_keys(&mut self.conn, |conn| {
+            checkpoint::with_checkpointer(conn, &path, |conn, checkpoints| {
+                write_pieces(conn, &path, checkpoints, next, spent)
+            })
+        })
     }
 
     /// Writes batches recorded elsewhere, as an import does; a refused batch is
@@ -252,7 +278,7 @@ impl Store {
                 .map(|(i, b)| (start * PIECE + i + 1, record(b.clone())))
                 .collect::<Vec<Item>>()
         });
-        self.import_pieces(|| pieces.next())
+        self.import_pieces(|| pieces.next(), drop)
     }
 
     /// Reads JSON Lines of batches. A code already present is skipped and counted; a
@@ -262,8 +288,17 @@ impl Store {
         std::thread::scope(|scope| {
             // A few pieces wait while one is written: memory stays near one transaction.
             let (pieces, parsed) = std::sync::mpsc::sync_channel::<Vec<Item>>(4);
-            let reader = scope.spawn(move || read_pieces(input, &pieces));
-            let written = self.import_pieces(|| parsed.recv().ok());
+            // Written pieces go back to the reader to be freed, off the writer's path.
+            let (give_back, spent) = std::sync::mpsc::channel::<Vec<Vec<Item>>>();
+            let reader = scope.spawn(move || read_pieces(input, pieces, &spent));
+            let written = self.import_pieces(
+                || parsed.recv().ok(),
+                // Moved in, so the reader sees the end when the writer is done.
+                move |taken| {
+                    // The reader may have stopped; then they are freed here.
+                    let _ = give_back.send(taken);
+                },
+            );
             // After an error the reader stops at its next piece, as no one listens.
             drop(parsed);
             let read = reader.join().expect("the import reader panicked");
@@ -273,11 +308,12 @@ impl Store {
     }
 }
 
-/// Reads and checks lines, handing them on a piece at a time; stops early when the
-/// writer has stopped listening.
+/// Reads and checks lines, handing them on a piece at a time, and frees the pieces
+/// the writer hands back; stops early when the writer has stopped listening.
 fn read_pieces(
     input: &mut (dyn BufRead + Send),
-    pieces: &std::sync::mpsc::SyncSender<Vec<Item>>,
+    pieces: std::sync::mpsc::SyncSender<Vec<Item>>,
+    spent: &std::sync::mpsc::Receiver<Vec<Vec<Item>>>,
 ) -> Result<()> {
     let mut items: Vec<Item> = Vec::with_capacity(PIECE);
     let mut number = 0;
@@ -296,14 +332,24 @@ fn read_pieces(
                 items.push((number, parse_line(&line)));
             }
         }
-        if (items.len() >= PIECE || (read == 0 && !items.is_empty()))
-            && pieces
+        if items.len() >= PIECE || (read == 0 && !items.is_empty()) {
+            while let Ok(done) = spent.try_recv() {
+                drop(done);
+            }
+            if pieces
                 .send(std::mem::replace(&mut items, Vec::with_capacity(PIECE)))
                 .is_err()
-        {
-            return Ok(());
+            {
+                return Ok(());
+            }
         }
         if read == 0 {
+            // No more pieces (the writer sees the end), then free what the writer
+            // hands back until it is done.
+            drop(pieces);
+            for done in spent {
+                drop(done);
+            }
             return Ok(());
         }
     }

@@ -16,6 +16,7 @@
 pub mod amend;
 pub mod backup;
 mod batches;
+mod checkpoint;
 pub mod csv;
 mod error;
 mod guards;

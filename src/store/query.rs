@@ -202,31 +202,34 @@ impl Store {
         if let Some(query) = filter.search.as_deref().and_then(fts_query) {
             // Few matches: collect them and sort. Many: walk the batches newest first,
             // which stops as soon as the page is full, testing each against the index
-            // (whole words). A prefix with many matches is slow to probe one batch at a
-            // time: take the page from the newest index entries when that is provably
-            // the true page, else test against the collected matches.
-            let many = self.matches_at_least(&query.fts, MANY_MATCHES)?;
-            let clause = if !many {
+            // (whole words). A prefix is different: FTS5 builds its whole list of
+            // matches on every query, so it is not counted first and not probed one
+            // batch at a time. Its page is taken from the newest index entries when
+            // that is provably the true page (always, with few matches); else it is
+            // counted, to pick between the two exact plans.
+            let newest = if query.has_prefix {
+                self.page_from_newest_entries(&query.fts, filter)?
+            } else {
+                None
+            };
+            let clause = if let Some(ids) = newest {
+                let list = ids.iter().map(i64::to_string).collect::<Vec<_>>().join(",");
+                args.push(SqlValue::Text(format!("[{list}]")));
+                sql.push_str(&format!(
+                    " AND b.id IN (SELECT value FROM json_each(?{}))",
+                    args.len()
+                ));
+                String::new()
+            } else if !self.matches_at_least(&query.fts, MANY_MATCHES)? {
                 format!(
                     " AND b.id IN (SELECT rowid / {PER_BATCH} FROM batch_search \
                        WHERE batch_search MATCH ?)"
                 )
             } else if query.has_prefix {
-                match self.page_from_newest_entries(&query.fts, filter)? {
-                    Some(ids) => {
-                        let list = ids.iter().map(i64::to_string).collect::<Vec<_>>().join(",");
-                        args.push(SqlValue::Text(format!("[{list}]")));
-                        sql.push_str(&format!(
-                            " AND b.id IN (SELECT value FROM json_each(?{}))",
-                            args.len()
-                        ));
-                        String::new()
-                    }
-                    None => format!(
-                        " AND +b.id IN (SELECT rowid / {PER_BATCH} FROM batch_search \
-                           WHERE batch_search MATCH ?)"
-                    ),
-                }
+                format!(
+                    " AND +b.id IN (SELECT rowid / {PER_BATCH} FROM batch_search \
+                       WHERE batch_search MATCH ?)"
+                )
             } else {
                 format!(
                     " AND EXISTS (SELECT 1 FROM batch_search WHERE batch_search MATCH ? \
