@@ -71,7 +71,10 @@ fn record(batch: Batch) -> std::result::Result<Record, String> {
 /// Reads one line. The analysis snapshot, most of the line, is kept as the text
 /// it was (checked to be JSON) rather than parsed into a tree and written out again.
 fn parse_line(text: &str) -> std::result::Result<Record, String> {
-    let (batch, prediction) = read_batch(text.trim_end()).map_err(|e| match e {
+    // A byte-order mark, as some editors put at the start of a file, and a Windows
+    // line end are not part of the record.
+    let text = text.trim_start_matches('\u{feff}').trim_end();
+    let (batch, prediction) = read_batch(text).map_err(|e| match e {
         StoreError::Invalid(why) => why,
         other => other.to_string(),
     })?;
