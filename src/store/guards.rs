@@ -1,12 +1,13 @@
-//! The insert-time guards, lifted for the length of one bulk write: three triggers
+//! The insert-time guards, lifted for the length of one bulk write: two triggers
 //! (inside its transaction) and foreign-key enforcement (on its connection).
 //!
-//! Three triggers in the schema check each new row: a batch's recipe version belongs
-//! to its recipe, no line is added to a final batch, and a final batch is never
-//! updated. Each firing runs a small sub-program; on an import they are about a
-//! fifth of the work, though every record an import writes passes them by
-//! construction (its version ids come from one row of `recipe_versions`, and its
-//! lines are written while it is still a draft, just before it is signed off).
+//! Two triggers in the schema check each new row: a batch's recipe version belongs
+//! to its recipe, and no line is added to a final batch. Each firing runs a small
+//! sub-program; on an import they were about a fifth of the work, though every
+//! record an import writes passes them by construction: its version ids come from
+//! one row of `recipe_versions`, and its lines belong to a record the same
+//! transaction has just written whole, draft or signed off. The triggers that
+//! refuse updates and deletes stay in place: an import only inserts.
 //!
 //! So an import drops them inside its own transaction and creates them again, from
 //! the very text the schema holds, before that transaction commits. No other
@@ -18,11 +19,7 @@ use rusqlite::{Connection, OptionalExtension, Transaction};
 use super::error::Result;
 
 /// The triggers an import lifts (names as in schema.sql).
-const INSERT_GUARDS: [&str; 3] = [
-    "batches_version_matches_recipe",
-    "batch_lines_insert_open",
-    "batches_final_is_final",
-];
+const INSERT_GUARDS: [&str; 2] = ["batches_version_matches_recipe", "batch_lines_insert_open"];
 
 /// Runs `work` with the insert-time guards dropped, then creates them again from the
 /// SQL they had. On an error the guards are not recreated here: the caller's
