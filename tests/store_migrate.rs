@@ -10,6 +10,7 @@ use gelu::store::Store;
 use gelu::store::migrate::latest_version;
 use rusqlite::Connection;
 
+mod batch_common;
 mod store_common;
 use store_common::{export, search};
 
@@ -87,10 +88,38 @@ fn a_version_1_log_migrates_and_exports_exactly_what_version_1_exported() {
     }
     drop(store);
 
-    // Opening again does not migrate again.
+    // Opening again does not migrate again, and has nothing to tell.
     let again = Store::open(&path).unwrap();
     assert_eq!(again.migration().from, latest_version());
     assert!(again.migration().backup.is_none());
+    assert_eq!(again.migration().notice(&path), None);
+}
+
+#[test]
+fn the_command_line_says_when_it_upgraded_a_log_and_where_the_copy_is() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = copy_of_v1(dir.path());
+    let run = || {
+        batch_common::gelu(&path)
+            .args(["batch", "list"])
+            .output()
+            .unwrap()
+    };
+    let first = run();
+    assert!(first.status.success());
+    let said = String::from_utf8_lossy(&first.stderr);
+    assert!(
+        said.contains("upgraded from schema version 1 to 2"),
+        "{said}"
+    );
+    assert!(said.contains(".bak"), "{said}");
+    assert!(String::from_utf8_lossy(&first.stdout).contains("B-20261202-0001"));
+    let second = run();
+    assert!(
+        second.stderr.is_empty(),
+        "{}",
+        String::from_utf8_lossy(&second.stderr)
+    );
 }
 
 #[test]

@@ -40,10 +40,14 @@ pub fn resolve_path(db: Option<&Path>) -> anyhow::Result<PathBuf> {
 
 /// Opens the batch log the command line uses (creating and seeding it when new).
 pub fn open_store(db: Option<&Path>) -> anyhow::Result<Store> {
-    match db {
-        Some(p) => Ok(Store::open(p)?),
-        None => Ok(Store::open_default()?),
+    let store = match db {
+        Some(p) => Store::open(p)?,
+        None => Store::open_default()?,
+    };
+    if let Some(notice) = store.migration().notice(store.path()) {
+        eprintln!("gelu: {notice}");
     }
+    Ok(store)
 }
 
 /// Runs `gelu db`.

@@ -81,6 +81,21 @@ pub struct Migrated {
     pub backup: Option<PathBuf>,
 }
 
+impl Migrated {
+    /// What to tell the user when an existing file was upgraded, naming the copy
+    /// kept of it; `None` when nothing was migrated or the file was new.
+    pub fn notice(&self, path: &Path) -> Option<String> {
+        let backup = self.backup.as_ref()?;
+        Some(format!(
+            "{} was upgraded from schema version {} to {}; the file as it was is kept at {}",
+            path.display(),
+            self.from,
+            self.to,
+            backup.display()
+        ))
+    }
+}
+
 /// Brings the database up to the last of `steps`. `seed` runs, in the same
 /// transaction, only when the database was new (version 0).
 pub fn migrate(

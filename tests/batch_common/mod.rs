@@ -1,6 +1,9 @@
 //! What the batch-log command tests share: the sample recipe they record, and the
 //! `gelu` binary pointed at a test database with a known operator name.
 
+// Each test file uses only some of these.
+#![allow(dead_code)]
+
 use std::path::Path;
 use std::process::Command;
 

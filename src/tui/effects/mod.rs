@@ -68,6 +68,10 @@ impl Services {
                 actions.push(self.load(name));
             }
         }
+        // Last, so that the message line shows it.
+        if let Some(notice) = self.store.migration().notice(self.store.path()) {
+            actions.push(Action::Info(notice));
+        }
         Ok(actions)
     }
 
