@@ -61,6 +61,30 @@ fn a_new_database_opens_on_a_seeded_recipe() {
 }
 
 #[test]
+fn an_upgraded_log_is_announced_on_the_message_line() {
+    let dir = tempdir();
+    let path = dir.path().join("log.db");
+    let fixture = concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/fixtures/batch-log-v1.db"
+    );
+    if let Err(e) = std::fs::copy(fixture, &path) {
+        panic!("{e}");
+    }
+    let (state, _) = open(&path, None);
+    let message = state.message.map(|m| (m.text, m.is_error));
+    assert!(
+        matches!(&message, Some((text, false)) if text.contains("upgraded from schema version 1")),
+        "{message:?}"
+    );
+    let (state, _) = open(&path, None);
+    assert!(
+        state.message.is_none_or(|m| !m.text.contains("upgraded")),
+        "said once, when it happened"
+    );
+}
+
+#[test]
 fn the_workspace_reopens_the_recipe_last_worked_on() {
     let dir = tempdir();
     let db = dir.path().join("log.db");
