@@ -87,6 +87,17 @@ fn an_import_over_several_transactions_keeps_refusals_and_repeats_apart() {
     let report = other.import_jsonl(&mut text.as_bytes()).unwrap();
     let refused: Vec<usize> = report.errors.iter().map(|(n, _)| *n).collect();
     assert_eq!(refused, [701, 5_301], "{:?}", report.errors);
+    // The key at fault, placed by column (the line is the one reported).
+    assert!(
+        report.errors[0].1.starts_with("`code`:") && report.errors[0].1.contains("(column "),
+        "{}",
+        report.errors[0].1
+    );
+    assert!(
+        !report.errors[0].1.contains("line 1"),
+        "{}",
+        report.errors[0].1
+    );
     assert!(
         report.errors[1].1.contains("operator"),
         "{}",

@@ -56,6 +56,7 @@ pub fn batch_json(b: &Batch) -> Value {
 struct Wire<'a> {
     code: String,
     recipe: String,
+    #[serde(deserialize_with = "version_number")]
     recipe_version: u32,
     recipe_hash: String,
     recipe_text: String,
@@ -76,8 +77,28 @@ struct Wire<'a> {
     prediction: &'a RawValue,
 }
 
+/// A recipe version number: a whole number from 1.
+fn version_number<'de, D: serde::Deserializer<'de>>(d: D) -> std::result::Result<u32, D::Error> {
+    Value::deserialize(d)?
+        .as_u64()
+        .and_then(|n| u32::try_from(n).ok())
+        .filter(|&n| n >= 1)
+        .ok_or_else(|| serde::de::Error::custom("must be a whole number from 1"))
+}
+
 fn bad(what: String) -> StoreError {
     StoreError::Invalid(what)
+}
+
+/// A JSON error of a one-line record, placed by column only: "at line 1" would read
+/// as the file's first line next to the line number the import reports.
+fn placed(e: &serde_json::Error) -> String {
+    let text = e.to_string();
+    let suffix = format!(" at line {} column {}", e.line(), e.column());
+    match text.strip_suffix(&suffix) {
+        Some(what) if e.line() == 1 => format!("{what} (column {})", e.column()),
+        _ => text,
+    }
 }
 
 /// Why `text` could not be read as a batch, naming the key at fault where possible.
@@ -86,11 +107,11 @@ fn explain(text: &str, plain: serde_json::Error) -> String {
     match serde_path_to_error::deserialize::<_, Wire>(&mut de) {
         Err(e) => match e.path().to_string().as_str() {
             // The whole record, or a key that could not be read.
-            "." | "?" => e.into_inner().to_string(),
-            path => format!("`{path}`: {}", e.into_inner()),
+            "." | "?" => placed(e.inner()),
+            path => format!("`{path}`: {}", placed(e.inner())),
         },
         // Only trailing text after the object is left.
-        Ok(_) => plain.to_string(),
+        Ok(_) => placed(&plain),
     }
 }
 
@@ -104,9 +125,6 @@ pub fn read_batch(text: &str) -> Result<(Batch, &str)> {
     // The plain reader is the fast path; only a refused record is read again, with
     // the path to the key at fault tracked, to say where it went wrong.
     let wire: Wire = serde_json::from_str(text).map_err(|plain| bad(explain(text, plain)))?;
-    if wire.recipe_version < 1 {
-        return Err(bad("`recipe_version` must be a whole number from 1".into()));
-    }
     let prediction = wire.prediction.get();
     if !prediction.starts_with('{') {
         return Err(bad("`prediction` must be a JSON object".into()));
