@@ -114,7 +114,9 @@ pub(crate) fn with_checkpointer<T>(
         changed: Condvar::new(),
     };
     let Ok(second) = open::connect(path) else {
-        return work(conn, &checkpoints_off());
+        // No one serves it, and no one waits on it: the WAL length it knows stays
+        // at zero, and SQLite's own checkpoints stay on.
+        return work(conn, &checkpoints);
     };
     conn.pragma_update(None, "wal_autocheckpoint", 0)?;
     let out = std::thread::scope(|scope| {
@@ -140,18 +142,6 @@ impl Drop for StopOnDrop<'_> {
     fn drop(&mut self) {
         self.0.lock().stop = true;
         self.0.changed.notify_all();
-    }
-}
-
-/// A writer's side with no checkpointer behind it. Nothing ever waits on it: the WAL
-/// length it knows stays at zero, and SQLite's own checkpoints are left on.
-fn checkpoints_off() -> Checkpoints {
-    Checkpoints {
-        state: Mutex::new(State {
-            stop: true,
-            ..State::default()
-        }),
-        changed: Condvar::new(),
     }
 }
 
