@@ -38,6 +38,19 @@ fn planned(file: &str, size: &str, day: u32, lot: &str, note: &str) -> NewBatch 
     .unwrap()
 }
 
+/// A 2 kg vanilla batch to copy into many imported records.
+fn template(store: &mut Store) -> gelu::store::Batch {
+    store
+        .new_batch(&planned(
+            "harbour-vanilla.toml",
+            "2kg",
+            1,
+            "S-0",
+            "template",
+        ))
+        .unwrap()
+}
+
 fn fresh() -> (tempfile::TempDir, Store) {
     let dir = tempfile::tempdir().unwrap();
     let store = Store::open(&dir.path().join("log.db")).unwrap();
@@ -452,15 +465,7 @@ fn a_malformed_import_line_is_reported_and_nothing_of_it_written() {
 #[test]
 fn searches_with_many_matches_page_like_a_plain_filter() {
     let (_dir, mut store) = fresh();
-    let template = store
-        .new_batch(&planned(
-            "harbour-vanilla.toml",
-            "2kg",
-            1,
-            "S-0",
-            "template",
-        ))
-        .unwrap();
+    let template = template(&mut store);
     // 3,000 batches, four in five noted "glossy": enough to take the many-matches path.
     let list: Vec<_> = (0..3_000)
         .map(|i| {
@@ -561,15 +566,7 @@ fn prefix_searches_page_by_time_even_when_records_were_imported_out_of_order() {
     // be the newest by time. The imports are dated after the template batch.
     for order in ["with time", "against time", "one new record first"] {
         let (_dir, mut store) = fresh();
-        let template = store
-            .new_batch(&planned(
-                "harbour-vanilla.toml",
-                "2kg",
-                1,
-                "S-0",
-                "template",
-            ))
-            .unwrap();
+        let template = template(&mut store);
         let n = 3_000i64;
         let made = |i: i64| {
             let minutes = match order {
