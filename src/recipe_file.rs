@@ -250,7 +250,7 @@ pub fn parse_recipe_with(
         name,
         style,
         notes: doc.notes.unwrap_or_default(),
-        serving_target,
+        serving_frozen_fraction: serving_target,
         solutes,
         ingredients,
         lines,
@@ -371,7 +371,7 @@ pub fn recipe_to_toml(recipe: &Recipe) -> String {
     if !recipe.notes.is_empty() {
         let _ = writeln!(out, "notes = {}", q(&recipe.notes));
     }
-    if let Some(t) = recipe.serving_target {
+    if let Some(t) = recipe.serving_frozen_fraction {
         let _ = writeln!(out, "serving_target = {t}");
     }
     for s in &recipe.solutes {

@@ -55,12 +55,12 @@ fn all_finite(a: &Analysis) -> bool {
         a.abv_pct,
         a.sweetness,
         a.sugar_g_per_l,
-        c.water,
-        c.fat,
-        c.msnf,
-        c.sugars,
-        c.total_solids,
-        c.ethanol,
+        c.water_pct,
+        c.fat_pct,
+        c.msnf_pct,
+        c.sugars_pct,
+        c.total_solids_pct,
+        c.ethanol_pct,
     ]
     .iter()
     .all(|v| v.is_finite())
@@ -80,7 +80,7 @@ proptest! {
         let after = run(&more);
         match (before.freezing_point_c, after.freezing_point_c) {
             (Some(b), Some(a)) => prop_assert!(a <= b + 1e-9, "{b} -> {a}"),
-            (None, Some(a)) => prop_assert!(before.composition.water == 0.0, "appeared at {a}"),
+            (None, Some(a)) => prop_assert!(before.composition.water_pct == 0.0, "appeared at {a}"),
             _ => {}
         }
         for (p, q) in before.ice_curve.iter().zip(&after.ice_curve) {
@@ -105,7 +105,7 @@ proptest! {
         let b = run(&r.scaled(factor));
         prop_assert!((b.mass_g / a.mass_g - factor).abs() < 1e-9 * factor);
         let close = |x: f64, y: f64| (x - y).abs() < 1e-9 * x.abs().max(1.0);
-        prop_assert!(close(a.composition.water, b.composition.water) && close(a.composition.sugars, b.composition.sugars));
+        prop_assert!(close(a.composition.water_pct, b.composition.water_pct) && close(a.composition.sugars_pct, b.composition.sugars_pct));
         prop_assert!(close(a.abv_pct, b.abv_pct) && close(a.sweetness, b.sweetness));
         match (a.freezing_point_c, b.freezing_point_c) {
             (Some(x), Some(y)) => prop_assert!((x - y).abs() < 1e-9),

@@ -146,7 +146,7 @@ fn standard_mix_freezes_where_the_classic_method_puts_it() {
     // Goff & Hartel, Ice Cream, 7th ed.: the classic sucrose-equivalent method
     // puts the standard mix at about -2.5 °C. Tolerance 0.15 K.
     let a = analyze(&standard_mix(), Catalog::builtin(), &Options::default()).unwrap();
-    assert!((a.composition.msnf - 11.0).abs() < 1e-9);
+    assert!((a.composition.msnf_pct - 11.0).abs() < 1e-9);
     let fp = a.freezing_point_c.unwrap();
     assert!(
         (fp + 2.5).abs() < 0.15,

@@ -195,9 +195,9 @@ fn the_serving_target_of_the_recipe_drives_the_serving_temperature() {
     cmd(&mut s, Command::SetServingTarget);
     type_text(&mut s, "60");
     cmd(&mut s, Command::Confirm);
-    assert_eq!(s.recipe.recipe.serving_target, Some(0.6));
+    assert_eq!(s.recipe.recipe.serving_frozen_fraction, Some(0.6));
     let a = s.recipe.analysis.as_ref().ok();
-    assert_eq!(a.map(|a| a.serving_target), Some(0.6));
+    assert_eq!(a.map(|a| a.serving_frozen_fraction), Some(0.6));
     let at_60 = a.and_then(|a| a.serving_temp_c);
     assert!(at_60 > at_70, "less ice is reached at a warmer temperature");
     cmd(&mut s, Command::SetServingTarget);

@@ -18,7 +18,7 @@ pub use targets::{StyleTargets, targets_for};
 pub use warnings::{Severity, Warning};
 
 /// Default share of water frozen at serving (0..1): 65-70 % is scoopable (Mullan).
-pub const DEFAULT_SERVING_TARGET: f64 = 0.70;
+pub const DEFAULT_SERVING_FROZEN_FRACTION: f64 = 0.70;
 /// Default display-cabinet temperature (°C): dipping cabinets run -12 to -14 °C (common practice).
 pub const DEFAULT_CABINET_TEMP_C: f64 = -13.0;
 /// Default freezer temperature (°C): home and retail freezers, 0 °F.
@@ -69,7 +69,7 @@ pub enum AnalysisError {
 #[derive(Debug, Clone, PartialEq)]
 pub struct Options {
     /// Overrides the recipe's serving target (share of water frozen, 0..1).
-    pub serving_target: Option<f64>,
+    pub serving_frozen_fraction: Option<f64>,
     /// Extra temperatures (°C) at which to report the frozen share.
     pub at_temps_c: Vec<f64>,
     /// Display-cabinet temperature (°C).
@@ -83,7 +83,7 @@ pub struct Options {
 impl Default for Options {
     fn default() -> Self {
         Options {
-            serving_target: None,
+            serving_frozen_fraction: None,
             at_temps_c: Vec::new(),
             cabinet_temp_c: DEFAULT_CABINET_TEMP_C,
             freezer_temp_c: DEFAULT_FREEZER_TEMP_C,
@@ -96,23 +96,23 @@ impl Default for Options {
 #[derive(Debug, Clone, Copy, PartialEq, Serialize, Default)]
 pub struct Composition {
     /// Water.
-    pub water: f64,
+    pub water_pct: f64,
     /// Fat.
-    pub fat: f64,
+    pub fat_pct: f64,
     /// Protein.
-    pub protein: f64,
+    pub protein_pct: f64,
     /// Milk solids-not-fat (protein, lactose and minerals of dairy ingredients).
-    pub msnf: f64,
+    pub msnf_pct: f64,
     /// Lactose.
-    pub lactose: f64,
+    pub lactose_pct: f64,
     /// Mono- and disaccharides (lactose included).
-    pub sugars: f64,
+    pub sugars_pct: f64,
     /// Everything but water and ethanol.
-    pub total_solids: f64,
+    pub total_solids_pct: f64,
     /// Ethanol.
-    pub ethanol: f64,
+    pub ethanol_pct: f64,
     /// Insoluble or non-osmotic solids.
-    pub other_solids: f64,
+    pub other_solids_pct: f64,
 }
 
 /// One point of a freezing curve.
@@ -154,8 +154,8 @@ pub struct Analysis {
     /// Dilute-law (van 't Hoff) estimate of the freezing point (°C).
     pub dilute_law_freezing_point_c: Option<f64>,
     /// Share of water frozen at serving that the serving temperature is found for (0..1).
-    pub serving_target: f64,
-    /// Temperature at which `serving_target` of the water is frozen (°C).
+    pub serving_frozen_fraction: f64,
+    /// Temperature at which `serving_frozen_fraction` of the water is frozen (°C).
     pub serving_temp_c: Option<f64>,
     /// Frozen share from 0 to -40 °C every 0.5 K.
     pub ice_curve: Vec<CurvePoint>,
@@ -216,15 +216,15 @@ fn analyze_with(
     ]) - lactose_g;
     let all_solutes_g: f64 = mix.solutes.values().map(|s| s.1).sum();
     let composition = Composition {
-        water: pct(mix.water_g, total),
-        fat: pct(mix.fat_g, total),
-        protein: pct(mix.protein_g, total),
-        msnf: pct(mix.msnf_g, total),
-        lactose: pct(lactose_g, total),
-        sugars: pct(sugars_g, total),
-        total_solids: pct(total - mix.water_g - ethanol_g, total),
-        ethanol: pct(ethanol_g, total),
-        other_solids: pct(mix.other_solids_g, total),
+        water_pct: pct(mix.water_g, total),
+        fat_pct: pct(mix.fat_g, total),
+        protein_pct: pct(mix.protein_g, total),
+        msnf_pct: pct(mix.msnf_g, total),
+        lactose_pct: pct(lactose_g, total),
+        sugars_pct: pct(sugars_g, total),
+        total_solids_pct: pct(total - mix.water_g - ethanol_g, total),
+        ethanol_pct: pct(ethanol_g, total),
+        other_solids_pct: pct(mix.other_solids_g, total),
     };
     debug_assert!(
         (mix.water_g + mix.fat_g + mix.protein_g + mix.other_solids_g + all_solutes_g - total)
@@ -244,11 +244,11 @@ fn analyze_with(
         * 100.0
         / total;
     let volume_ml = mix.volume_ml();
-    let serving_target = options
-        .serving_target
-        .or(recipe.serving_target)
+    let serving_frozen_fraction = options
+        .serving_frozen_fraction
+        .or(recipe.serving_frozen_fraction)
         .filter(|t| (0.0..1.0).contains(t))
-        .unwrap_or(DEFAULT_SERVING_TARGET);
+        .unwrap_or(DEFAULT_SERVING_FROZEN_FRACTION);
     let point = |temp_c: f64| CurvePoint {
         temp_c,
         frozen_fraction: serum.frozen_fraction(temp_c),
@@ -275,8 +275,8 @@ fn analyze_with(
         sweetness,
         freezing_point_c: serum.freezing_point_c(),
         dilute_law_freezing_point_c: serum.dilute_law_freezing_point_c(),
-        serving_target,
-        serving_temp_c: serum.temp_for_frozen_fraction(serving_target),
+        serving_frozen_fraction,
+        serving_temp_c: serum.temp_for_frozen_fraction(serving_frozen_fraction),
         ice_curve,
         at: options.at_temps_c.iter().map(|t| point(*t)).collect(),
         cabinet: point(options.cabinet_temp_c),

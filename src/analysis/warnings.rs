@@ -63,14 +63,14 @@ pub fn warnings(a: &Analysis, mix: &Mix, unit: TempUnit) -> Vec<Warning> {
     }
     let frozen_dessert = !a.style.is_drink();
     // Ethanol in a frozen dessert.
-    if frozen_dessert && a.composition.ethanol > ETHANOL_SET_LIMIT_PCT {
+    if frozen_dessert && a.composition.ethanol_pct > ETHANOL_SET_LIMIT_PCT {
         add(
             "too-much-ethanol",
             Severity::Problem,
             format!(
                 "{:.1} % ethanol by mass: above about {ETHANOL_SET_LIMIT_PCT} % an ice cream hardly sets unless the sugar is cut; \
                  at the freezer ({}) only {:.0} % of its water is ice.",
-                a.composition.ethanol,
+                a.composition.ethanol_pct,
                 fmt_temp(a.freezer.temp_c),
                 100.0 * a.freezer.frozen_fraction
             ),
@@ -114,7 +114,7 @@ pub fn warnings(a: &Analysis, mix: &Mix, unit: TempUnit) -> Vec<Warning> {
                 format!(
                     "Soft in the cabinet: at {t} only {:.0} % of the water is frozen (scoopable is about 65-70 %); it reaches {:.0} % at {serve}.",
                     100.0 * f,
-                    100.0 * a.serving_target
+                    100.0 * a.serving_frozen_fraction
                 ),
             );
         } else if f > HARD_FROZEN_FRACTION {
@@ -124,7 +124,7 @@ pub fn warnings(a: &Analysis, mix: &Mix, unit: TempUnit) -> Vec<Warning> {
                 format!(
                     "Hard in the cabinet: at {t} {:.0} % of the water is frozen (scoopable is about 65-70 %); it reaches {:.0} % at {serve}.",
                     100.0 * f,
-                    100.0 * a.serving_target
+                    100.0 * a.serving_frozen_fraction
                 ),
             );
         }
@@ -168,12 +168,12 @@ pub fn warnings(a: &Analysis, mix: &Mix, unit: TempUnit) -> Vec<Warning> {
     let targets = targets_for(a.style);
     let style = a.style.as_str();
     let checks = [
-        ("fat", a.composition.fat, targets.fat),
-        ("MSNF", a.composition.msnf, targets.msnf),
+        ("fat", a.composition.fat_pct, targets.fat),
+        ("MSNF", a.composition.msnf_pct, targets.msnf),
         ("sweeteners", a.sweeteners_pct, targets.sweeteners),
         (
             "total solids",
-            a.composition.total_solids,
+            a.composition.total_solids_pct,
             targets.total_solids,
         ),
     ];
@@ -260,7 +260,7 @@ pub fn cautions(a: &Analysis, mix: &Mix) -> Vec<String> {
             a.allergens.join(", ")
         ));
     }
-    if a.composition.ethanol > 0.0 {
+    if a.composition.ethanol_pct > 0.0 {
         c.push("Spirits give off flammable vapour near room temperature (a 40 % vol spirit flashes at about 26 °C): add them off the heat, away from flames. Label the alcohol content and any age limit where the law requires it.".into());
         c.push("Ethanol makes a refractometer read high: do not read Brix as sugar in an alcoholic mix.".into());
     }

@@ -120,7 +120,7 @@ pub fn run(args: &ReportArgs) -> anyhow::Result<ExitCode> {
         TempUnit::Celsius
     };
     let options = Options {
-        serving_target: args.serving_target,
+        serving_frozen_fraction: args.serving_target,
         at_temps_c: args.at.clone(),
         temp_unit: unit,
         ..Options::default()

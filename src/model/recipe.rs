@@ -117,7 +117,7 @@ pub struct Recipe {
     /// Free notes.
     pub notes: String,
     /// Share of water frozen at serving (0..1), when the recipe sets one.
-    pub serving_target: Option<f64>,
+    pub serving_frozen_fraction: Option<f64>,
     /// The user's own solutes.
     pub solutes: Vec<Solute>,
     /// The user's own ingredients.

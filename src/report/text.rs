@@ -44,7 +44,7 @@ pub fn report_text(a: &Analysis, unit: TempUnit) -> String {
         o,
         "Serving temperature   {}  ({:.0} % of the water frozen)",
         temp_or(unit, a.serving_temp_c, "not reached above -60 °C"),
-        100.0 * a.serving_target
+        100.0 * a.serving_frozen_fraction
     );
     for (label, p) in [("Cabinet", &a.cabinet), ("Freezer", &a.freezer)] {
         let _ = writeln!(
@@ -67,11 +67,11 @@ pub fn report_text(a: &Analysis, unit: TempUnit) -> String {
         "Sweetness             {:.1} (g sucrose per 100 g that would taste as sweet)",
         a.sweetness
     );
-    if a.composition.ethanol > 0.0 {
+    if a.composition.ethanol_pct > 0.0 {
         let _ = writeln!(
             o,
             "Alcohol               {:.1} % vol at 20 °C ({:.2} % by mass)",
-            a.abv_pct, c.ethanol
+            a.abv_pct, c.ethanol_pct
         );
     }
     if a.style.is_drink() {
@@ -79,16 +79,16 @@ pub fn report_text(a: &Analysis, unit: TempUnit) -> String {
     }
     let _ = writeln!(o, "\nComposition (mass %)");
     let rows = [
-        ("water", c.water),
-        ("fat", c.fat),
-        ("MSNF", c.msnf),
-        ("protein", c.protein),
-        ("lactose", c.lactose),
-        ("sugars", c.sugars),
+        ("water", c.water_pct),
+        ("fat", c.fat_pct),
+        ("MSNF", c.msnf_pct),
+        ("protein", c.protein_pct),
+        ("lactose", c.lactose_pct),
+        ("sugars", c.sugars_pct),
         ("sweeteners, lactose aside", a.sweeteners_pct),
-        ("ethanol", c.ethanol),
-        ("other solids", c.other_solids),
-        ("total solids", c.total_solids),
+        ("ethanol", c.ethanol_pct),
+        ("other solids", c.other_solids_pct),
+        ("total solids", c.total_solids_pct),
     ];
     for (label, v) in rows {
         let _ = writeln!(o, "  {label:<28}{v:>6.2}");

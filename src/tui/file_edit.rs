@@ -58,7 +58,7 @@ fn same_recipe(a: &Recipe, b: &Recipe) -> bool {
     a.name == b.name
         && a.style == b.style
         && a.notes == b.notes
-        && a.serving_target == b.serving_target
+        && a.serving_frozen_fraction == b.serving_frozen_fraction
         && a.solutes == b.solutes
         && a.ingredients == b.ingredients
         && a.lines.len() == b.lines.len()
@@ -137,8 +137,8 @@ fn edit(doc: &mut DocumentMut, before: &Recipe, recipe: &Recipe) {
             set(root, "notes", Value::from(recipe.notes.as_str()));
         }
     }
-    if before.serving_target != recipe.serving_target {
-        match recipe.serving_target {
+    if before.serving_frozen_fraction != recipe.serving_frozen_fraction {
+        match recipe.serving_frozen_fraction {
             Some(t) => set(root, "serving_target", number(t)),
             None => {
                 root.remove("serving_target");

@@ -19,7 +19,7 @@ pub fn tide_mill_fior_di_latte() -> Recipe {
         name: "Tide Mill fior di latte".into(),
         style: Style::Gelato,
         notes: "Breakwater Lane test kitchen".into(),
-        serving_target: None,
+        serving_frozen_fraction: None,
         solutes: Vec::new(),
         ingredients: Vec::new(),
         lines: vec![

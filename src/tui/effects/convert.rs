@@ -14,7 +14,7 @@ use super::super::state::{
 
 const KEY_TEMP: &str = "workspace.temp_unit";
 const KEY_MASS: &str = "workspace.mass_unit";
-const KEY_SERVING: &str = "workspace.serving_target";
+const KEY_SERVING: &str = "workspace.serving_frozen_fraction";
 const KEY_CABINET: &str = "workspace.cabinet_temp_c";
 const KEY_FREEZER: &str = "workspace.freezer_temp_c";
 const KEY_OPERATOR: &str = "workspace.operator";
@@ -36,7 +36,7 @@ pub fn settings_pairs(s: &Settings) -> Vec<(&'static str, String)> {
                 MassUnit::Imperial => "oz".into(),
             },
         ),
-        (KEY_SERVING, s.serving_target.to_string()),
+        (KEY_SERVING, s.serving_frozen_fraction.to_string()),
         (KEY_CABINET, s.cabinet_temp_c.to_string()),
         (KEY_FREEZER, s.freezer_temp_c.to_string()),
         (KEY_OPERATOR, s.operator.clone()),
@@ -67,7 +67,7 @@ pub fn load_settings(store: &Store) -> Settings {
             .filter(|x| ok(*x))
     };
     if let Some(x) = number(KEY_SERVING, |x| x > 0.0 && x < 1.0) {
-        s.serving_target = x;
+        s.serving_frozen_fraction = x;
     }
     if let Some(x) = number(KEY_CABINET, |x| (-60.0..=0.0).contains(&x)) {
         s.cabinet_temp_c = x;

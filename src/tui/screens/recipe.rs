@@ -73,7 +73,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
             let text = state
                 .recipe
                 .recipe
-                .serving_target
+                .serving_frozen_fraction
                 .map(|t| units::trim_number(100.0 * t))
                 .unwrap_or_default();
             prompt(
@@ -406,7 +406,7 @@ pub fn accept(
             } else {
                 Some(units::parse_share_pct(text)?)
             };
-            change(state, |r| r.serving_target = target);
+            change(state, |r| r.serving_frozen_fraction = target);
         }
         PromptPurpose::Rename => {
             let name = non_empty_name(text)?;

@@ -62,7 +62,7 @@ pub fn current_text(state: &State, field: SettingField) -> String {
             MassUnit::Grams => "g and kg".into(),
             MassUnit::Imperial => "oz and lb".into(),
         },
-        SettingField::ServingTarget => trim_number(100.0 * s.serving_target),
+        SettingField::ServingTarget => trim_number(100.0 * s.serving_frozen_fraction),
         SettingField::CabinetTemp => format!("{:.1}", temp_value(s.cabinet_temp_c, s.temp_unit)),
         SettingField::FreezerTemp => format!("{:.1}", temp_value(s.freezer_temp_c, s.temp_unit)),
         SettingField::Operator => s.operator.clone(),
@@ -78,7 +78,9 @@ fn stored(state: &mut State) -> Vec<Effect> {
 pub fn accept(state: &mut State, field: SettingField, text: &str) -> Result<Vec<Effect>, String> {
     let unit = state.settings.temp_unit;
     match field {
-        SettingField::ServingTarget => state.settings.serving_target = parse_share_pct(text)?,
+        SettingField::ServingTarget => {
+            state.settings.serving_frozen_fraction = parse_share_pct(text)?
+        }
         SettingField::CabinetTemp => state.settings.cabinet_temp_c = parse_temp(text, unit)?,
         SettingField::FreezerTemp => state.settings.freezer_temp_c = parse_temp(text, unit)?,
         SettingField::Operator => {

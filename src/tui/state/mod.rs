@@ -4,7 +4,8 @@
 use std::path::PathBuf;
 
 use crate::analysis::{
-    self, Analysis, DEFAULT_CABINET_TEMP_C, DEFAULT_FREEZER_TEMP_C, DEFAULT_SERVING_TARGET, Options,
+    self, Analysis, DEFAULT_CABINET_TEMP_C, DEFAULT_FREEZER_TEMP_C,
+    DEFAULT_SERVING_FROZEN_FRACTION, Options,
 };
 use crate::catalog::Catalog;
 use crate::model::{Ingredient, Recipe, Solute};
@@ -80,7 +81,7 @@ pub struct Settings {
     /// Mass display and entry.
     pub mass_unit: MassUnit,
     /// Share of water frozen at serving for recipes that set none (0..1).
-    pub serving_target: f64,
+    pub serving_frozen_fraction: f64,
     /// Display-cabinet temperature (°C).
     pub cabinet_temp_c: f64,
     /// Freezer temperature (°C).
@@ -94,7 +95,7 @@ impl Default for Settings {
         Settings {
             temp_unit: TempUnit::Celsius,
             mass_unit: MassUnit::Grams,
-            serving_target: DEFAULT_SERVING_TARGET,
+            serving_frozen_fraction: DEFAULT_SERVING_FROZEN_FRACTION,
             cabinet_temp_c: DEFAULT_CABINET_TEMP_C,
             freezer_temp_c: DEFAULT_FREEZER_TEMP_C,
             operator: String::new(),
@@ -310,11 +311,11 @@ impl State {
     /// The analysis options the settings give for the recipe in the editor.
     pub fn analysis_options(&self) -> Options {
         Options {
-            serving_target: Some(
+            serving_frozen_fraction: Some(
                 self.recipe
                     .recipe
-                    .serving_target
-                    .unwrap_or(self.settings.serving_target),
+                    .serving_frozen_fraction
+                    .unwrap_or(self.settings.serving_frozen_fraction),
             ),
             at_temps_c: Vec::new(),
             cabinet_temp_c: self.settings.cabinet_temp_c,

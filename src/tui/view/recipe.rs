@@ -134,7 +134,10 @@ fn render_figures(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
                 ),
                 figure(
                     theme,
-                    &format!("Serve at ({:.0} % frozen)", 100.0 * a.serving_target),
+                    &format!(
+                        "Serve at ({:.0} % frozen)",
+                        100.0 * a.serving_frozen_fraction
+                    ),
                     fmt_temp_opt(a.serving_temp_c, t),
                     width,
                 ),
@@ -156,10 +159,10 @@ fn render_figures(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
                     format!("{:.1}", a.sweetness),
                     width,
                 ),
-                figure(theme, "Total solids", pct(c.total_solids), width),
-                figure(theme, "Fat", pct(c.fat), width),
-                figure(theme, "MSNF", pct(c.msnf), width),
-                figure(theme, "Sugars", pct(c.sugars), width),
+                figure(theme, "Total solids", pct(c.total_solids_pct), width),
+                figure(theme, "Fat", pct(c.fat_pct), width),
+                figure(theme, "MSNF", pct(c.msnf_pct), width),
+                figure(theme, "Sugars", pct(c.sugars_pct), width),
                 figure(theme, "ABV", format!("{:.1} % vol", a.abv_pct), width),
                 figure(
                     theme,
@@ -167,8 +170,8 @@ fn render_figures(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
                     fmt_temp_opt(a.dilute_law_freezing_point_c, t),
                     width,
                 ),
-                figure(theme, "Water", pct(c.water), width),
-                figure(theme, "Protein", pct(c.protein), width),
+                figure(theme, "Water", pct(c.water_pct), width),
+                figure(theme, "Protein", pct(c.protein_pct), width),
                 figure(
                     theme,
                     "Sugars per litre",
