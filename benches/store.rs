@@ -12,12 +12,13 @@ use std::time::{Duration, Instant};
 
 use chrono::{DateTime, TimeZone, Utc};
 use criterion::{BatchSize, Criterion, Throughput, criterion_group, criterion_main};
-use gelu::store::jsonl::batch_json;
-use gelu::store::values::content_hash;
-use gelu::store::{
+use gelu::batch::jsonl::batch_json;
+use gelu::batch::version::content_hash;
+use gelu::batch::{
     Amendment, Batch, BatchFilter, BatchLine, Change, Measurement, MeasurementKind, Note,
-    RecipeVersion, Status, Store,
+    RecipeVersion, Status,
 };
+use gelu::store::Store;
 
 const FIXTURE_BATCHES: usize = 1_000_000;
 /// Bump when the generator changes, so a stale cached fixture is not reused.
@@ -242,16 +243,22 @@ fn on_a_million(c: &mut Criterion) {
 fn real_snapshot() -> serde_json::Value {
     let (file, text) = gelu::samples::SAMPLE_RECIPES[0];
     let recipe = gelu::recipe_file::parse_recipe(Path::new(file), text).unwrap();
-    let plan = gelu::store::plan::Plan {
+    let plan = gelu::batch::plan::Plan {
         recipe: &recipe,
         recipe_text: text,
-        size: gelu::store::plan::BatchSize::Grams(5000.0),
+        size: gelu::model::Amount::Grams(5000.0),
         operator: "cook",
         lots: &[],
         note: None,
         made_at: made_at(0),
     };
-    gelu::store::plan::plan_batch(&plan).unwrap().prediction
+    gelu::batch::plan::plan_batch(
+        &plan,
+        gelu::catalog::Catalog::builtin(),
+        &gelu::analysis::Options::default(),
+    )
+    .unwrap()
+    .prediction
 }
 
 fn import(c: &mut Criterion) {

@@ -14,11 +14,15 @@ use std::path::{Path, PathBuf};
 use std::time::Duration;
 
 use criterion::{Criterion, criterion_group, criterion_main};
+use gelu::analysis::Options;
+use gelu::batch::jsonl::batch_json;
+use gelu::batch::plan::{Plan, plan_batch};
+use gelu::catalog::Catalog;
 use gelu::recipe_file::parse_recipe;
 use gelu::samples::SAMPLE_RECIPES;
-use gelu::store::plan::{BatchSize, Plan, plan_batch};
-use gelu::store::{Store, jsonl::batch_json};
-use gelu::tui::app::{Launch, drain};
+use gelu::store::Store;
+use gelu::tui::Launch;
+use gelu::tui::app::drain;
 use gelu::tui::effects::Services;
 use gelu::tui::keymap::action_for;
 use gelu::tui::state::{RecipeSource, State};
@@ -157,16 +161,23 @@ fn million_db() -> PathBuf {
         Ok(r) => r,
         Err(e) => panic!("{e}"),
     };
-    let planned = plan_batch(&Plan {
-        recipe: &recipe,
-        recipe_text: text,
-        size: BatchSize::Grams(5000.0),
-        operator: "RW",
-        lots: &[],
-        note: None,
-        made_at: chrono::Utc::now(),
-    });
-    let first = match planned.and_then(|p| store.new_batch(&p)) {
+    let planned = plan_batch(
+        &Plan {
+            recipe: &recipe,
+            recipe_text: text,
+            size: gelu::model::Amount::Grams(5000.0),
+            operator: "RW",
+            lots: &[],
+            note: None,
+            made_at: gelu::clock::now(),
+        },
+        Catalog::builtin(),
+        &Options::default(),
+    );
+    let first = match planned
+        .map_err(gelu::store::StoreError::from)
+        .and_then(|p| store.new_batch(&p))
+    {
         Ok(b) => b,
         Err(e) => panic!("template batch: {e}"),
     };

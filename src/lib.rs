@@ -5,15 +5,24 @@
 //! Data flows one way: file or database -> [`model::Recipe`] -> ([`catalog`]) ->
 //! [`analysis::Mix`] -> [`analysis::Analysis`] -> view or report.
 //!
-//! - [`model`]: plain data (solutes, ingredients, recipes, amounts).
-//! - [`thermo`]: pure physics (ice activity, binary water-activity models, the ZSR
+//! The pure core (no files, no clock, no terminal, no SQL; deterministic):
+//! - [`model`]: plain data (solutes, ingredients, recipes, amounts) and the one
+//!   reader and writer of units, shares and times as people type them.
+//! - [`thermo`]: physics (ice activity, binary water-activity models, the ZSR
 //!   freezing curve, ethanol-water tables).
 //! - [`catalog`]: the built-in solutes and ingredients, embedded at build time.
 //! - [`analysis`]: recipe -> every figure the user sees, with warnings and cautions.
-//! - [`tui`]: the terminal workspace (recipe editor, ingredients, batch log, settings).
+//! - [`report`]: an analysis -> text (with a character chart) or JSON.
+//! - [`batch`]: the batch domain: records, planning, amendments, measured against
+//!   predicted, JSON and CSV forms.
 //!
-//! `model`, `thermo`, `catalog` and `analysis` are pure: no files, no clock, no
-//! terminal, no SQL.
+//! The shell around it:
+//! - [`recipe_file`]: recipe TOML files in and out, keeping comments on save.
+//! - [`samples`]: the embedded demo recipes.
+//! - [`store`]: the batch log in SQLite (the only module that speaks SQL).
+//! - [`clock`]: the one clock.
+//! - [`tui`]: the terminal workspace (recipe editor, ingredients, batch log, settings).
+//! - [`cli`]: the command line; with `main`, the only place that exits.
 //!
 //! ```
 //! use std::path::Path;
@@ -31,8 +40,10 @@
 #![allow(clippy::neg_cmp_op_on_partial_ord)]
 
 pub mod analysis;
+pub mod batch;
 pub mod catalog;
 pub mod cli;
+pub mod clock;
 pub mod model;
 pub mod recipe_file;
 pub mod report;

@@ -40,3 +40,32 @@ pub const SAMPLE_RECIPES: &[(&str, &str)] = &[
         include_str!("../sample-recipes/strawberry-liqueur.toml"),
     ),
 ];
+
+/// The recipe name inside each file of [`SAMPLE_RECIPES`], in the same order (a
+/// new batch log saves each sample under its name; a test checks they agree).
+pub const SAMPLE_RECIPE_NAMES: [&str; 9] = [
+    "Gullrock cream liqueur",
+    "Dark spirit custard",
+    "Promenade frozen yogurt",
+    "Harbour vanilla",
+    "Quay lemon sorbet",
+    "Mango sherbet",
+    "Pier milk gelato",
+    "Smoked butter and sea salt",
+    "Gullrock strawberry liqueur",
+];
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn names_agree_with_the_files() {
+        assert_eq!(SAMPLE_RECIPES.len(), SAMPLE_RECIPE_NAMES.len());
+        for ((file, text), name) in SAMPLE_RECIPES.iter().zip(SAMPLE_RECIPE_NAMES) {
+            let recipe = crate::recipe_file::parse_recipe(std::path::Path::new(file), text)
+                .unwrap_or_else(|e| panic!("{e}"));
+            assert_eq!(recipe.name, name, "{file}");
+        }
+    }
+}

@@ -9,10 +9,11 @@ use std::process::ExitCode;
 use crate::analysis::{Options, analyze};
 use crate::catalog::Catalog;
 use crate::model::Recipe;
+use crate::model::TempUnit;
+use crate::model::units::{parse_freezing_temp, parse_share};
 use crate::recipe_file::{parse_recipe, read_recipe};
 use crate::report::json::write_analysis_json;
 use crate::report::text::report_text;
-use crate::report::{TempUnit, parse_temp_c};
 use crate::samples::SAMPLE_RECIPES;
 
 /// Arguments of `gelu report`.
@@ -25,7 +26,7 @@ pub struct ReportArgs {
     #[arg(long)]
     pub json: bool,
     /// Also report the frozen share at TEMP (°C, or with a C/F suffix like 0F); repeatable.
-    #[arg(long = "at", value_name = "TEMP", value_parser = parse_temp_c, allow_hyphen_values = true)]
+    #[arg(long = "at", value_name = "TEMP", value_parser = at_temp, allow_hyphen_values = true)]
     pub at: Vec<f64>,
     /// Share of water frozen at serving (0..1), overriding the recipes' own.
     #[arg(long, value_name = "SHARE", value_parser = parse_share)]
@@ -35,13 +36,9 @@ pub struct ReportArgs {
     pub fahrenheit: bool,
 }
 
-fn parse_share(text: &str) -> Result<f64, String> {
-    match text.trim().parse::<f64>() {
-        Ok(v) if v > 0.0 && v < 1.0 => Ok(v),
-        _ => Err(format!(
-            "`{text}` is not a share: give a number between 0 and 1, like 0.70"
-        )),
-    }
+/// `--at`: a temperature in °C, or with a C or F suffix.
+fn at_temp(text: &str) -> Result<f64, String> {
+    parse_freezing_temp(text, TempUnit::Celsius)
 }
 
 fn emit(

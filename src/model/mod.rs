@@ -1,10 +1,12 @@
-//! Plain data: solutes, ingredients, recipes and their amounts. No physics and
-//! no I/O here; `catalog` holds the built-in instances and `analysis` the maths.
+//! Plain data: solutes, ingredients, recipes and their amounts, and the one way
+//! gelu reads and writes units and times as people type them. No physics and no
+//! I/O here; `catalog` holds the built-in instances and `analysis` the maths.
 
 mod recipe;
 mod solute;
-mod units;
+pub mod time;
+pub mod units;
 
 pub use recipe::{Amount, Line, Recipe, Style};
 pub use solute::{Category, Ingredient, Solute, SoluteKind};
-pub use units::TempUnit;
+pub use units::{MassUnit, TempUnit};

@@ -3,7 +3,7 @@
 
 use crate::analysis::Analysis;
 
-use super::TempUnit;
+use crate::model::TempUnit;
 
 /// Rows of the chart: frozen share from 100 % at the top to 0 % at the bottom.
 const ROWS: usize = 10;

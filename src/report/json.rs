@@ -215,7 +215,7 @@ pub fn write_analysis_json(a: &Analysis, out: &mut impl Write) -> std::io::Resul
     out.write_all(&analysis_json_bytes(a))
 }
 
-/// The analysis as a JSON value (for storing as a snapshot).
+/// The analysis as a JSON value (for storing as a prediction).
 pub fn analysis_json(a: &Analysis) -> serde_json::Value {
     serde_json::from_slice(&analysis_json_bytes(a)).unwrap_or(serde_json::Value::Null)
 }

@@ -5,8 +5,8 @@ use std::fmt::Write as _;
 
 use crate::analysis::{Analysis, Severity};
 
-use super::TempUnit;
 use super::chart::frozen_share_chart;
+use crate::model::TempUnit;
 
 fn temp_or(unit: TempUnit, t: Option<f64>, otherwise: &str) -> String {
     t.map_or_else(|| otherwise.to_string(), |t| unit.format(t))

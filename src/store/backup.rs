@@ -8,7 +8,7 @@ use rusqlite::Connection;
 use rusqlite::backup::{Backup, StepResult};
 
 use super::error::{Result, StoreError};
-use super::values;
+use crate::clock;
 
 /// How many times a backup step that met a lock is tried again.
 const BUSY_STEPS: u32 = 200;
@@ -47,7 +47,7 @@ pub fn copy_to(conn: &Connection, dest: &Path) -> Result<()> {
 /// Writes a copy beside `path`, named after the schema version and the time, before
 /// a migration. Returns the copy's path.
 pub fn beside(conn: &Connection, path: &Path, version: i64) -> Result<PathBuf> {
-    let stamp = values::now().format("%Y%m%dT%H%M%S%.3fZ");
+    let stamp = clock::now().format("%Y%m%dT%H%M%S%.3fZ");
     let name = path
         .file_name()
         .map(|n| n.to_string_lossy().into_owned())

@@ -1,5 +1,5 @@
 //! Changing the batch log one request at a time: a new batch (with its recipe
-//! version, lines, first note and analysis snapshot), measurements, notes, sign-off
+//! version, lines, first note and prediction), measurements, notes, sign-off
 //! and amendments. Each call is one transaction; the rows themselves are written by
 //! [`records`].
 
@@ -8,15 +8,16 @@ use std::collections::HashSet;
 use chrono::{DateTime, Utc};
 use rusqlite::{Connection, OptionalExtension, Transaction, params};
 
-use super::amend::{self, Edit};
+use super::Store;
 use super::error::{Result, StoreError};
 use super::recipes;
-use super::records::{self, NewRecord, check_name};
+use super::records::{self, NewRecord};
 use super::search::{self, Pending, Slot};
-use super::types::{
-    Amendment, Batch, BatchLine, Measurement, MeasurementKind, NewBatch, Note, Status,
-};
-use super::{Store, values};
+use crate::batch::amend::{self, Edit};
+use crate::batch::validate::check_name;
+use crate::batch::{Amendment, Batch, Measurement, MeasurementKind, NewBatch, Note, Status};
+use crate::clock;
+use crate::model::time::time_text;
 
 /// The next free code for a day: `B-YYYYMMDD-NNNN`.
 fn next_code(tx: &Transaction, made_at: &DateTime<Utc>) -> Result<String> {
@@ -66,7 +67,7 @@ fn count(tx: &Transaction, table: &'static str, batch_id: i64) -> Result<usize> 
 
 impl Store {
     /// Records a new draft batch: saves the recipe text as a version (when new), the
-    /// lines, the first note and the analysis snapshot; returns the stored record.
+    /// lines, the first note and the prediction; returns the stored record.
     pub fn new_batch(&mut self, new: &NewBatch) -> Result<Batch> {
         if new.lines.is_empty() {
             return Err(StoreError::Invalid(
@@ -122,7 +123,7 @@ impl Store {
         by: &str,
     ) -> Result<Vec<Measurement>> {
         check_name("the name of who measured", by)?;
-        let taken_at = values::now();
+        let taken_at = clock::now();
         let list: Vec<Measurement> = readings
             .iter()
             .map(|&(kind, value)| Measurement {
@@ -158,7 +159,7 @@ impl Store {
         check_name("the note's author", by)?;
         let note = Note {
             text: text.to_owned(),
-            written_at: values::now(),
+            written_at: clock::now(),
             by: by.to_owned(),
         };
         self.write(|tx| {
@@ -174,7 +175,7 @@ impl Store {
     /// Signs a draft batch off: from now on it is only amended, never changed.
     pub fn finalize(&mut self, code: &str, by: &str) -> Result<Batch> {
         check_name("the name of who signs off", by)?;
-        let at = values::time_text(&values::now());
+        let at = time_text(&clock::now());
         self.write(|tx| {
             let (id, status) = find(tx, code)?;
             if status != "draft" {
@@ -214,7 +215,7 @@ impl Store {
             })?;
             let changes = amend::changes_for(edits, &current.operator, &current.lines)?;
             let a = Amendment {
-                amended_at: values::now(),
+                amended_at: clock::now(),
                 by: by.to_owned(),
                 reason: reason.to_owned(),
                 changes,
@@ -234,16 +235,4 @@ impl Store {
             code: code.to_owned(),
         })
     }
-}
-
-/// The lines of a batch before its amendments, from the current lines and its trail.
-pub(crate) fn original_record(batch: &Batch) -> Result<(String, Vec<BatchLine>)> {
-    let mut operator = batch.operator.clone();
-    let mut lines = batch.lines.clone();
-    for a in batch.amendments.iter().rev() {
-        for c in a.changes.iter().rev() {
-            amend::revert(c, &mut operator, &mut lines)?;
-        }
-    }
-    Ok((operator, lines))
 }

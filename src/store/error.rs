@@ -131,3 +131,9 @@ pub(crate) fn classify(path: &std::path::Path, e: rusqlite::Error) -> StoreError
         _ => StoreError::Sql(e),
     }
 }
+
+impl From<crate::batch::Invalid> for StoreError {
+    fn from(e: crate::batch::Invalid) -> Self {
+        StoreError::Invalid(e.0)
+    }
+}

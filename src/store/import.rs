@@ -17,16 +17,18 @@ use rusqlite::{Connection, Transaction};
 use serde_json::Value;
 
 use super::Store;
-use super::batches::{self, original_record};
+use super::batches;
 use super::checkpoint::{self, Checkpoints};
 use super::error::{Result, StoreError, is_busy};
 use super::guards;
-use super::jsonl::read_batch;
 use super::recipes::{self, VersionIds};
 use super::records::{self, NewRecord};
 use super::search::Pending;
 use super::tx;
-use super::types::{Batch, ImportReport, RecipeVersion};
+use super::types::ImportReport;
+use crate::batch::amend::original_record;
+use crate::batch::jsonl::read_batch;
+use crate::batch::{Batch, RecipeVersion};
 
 /// About how many records share one transaction (a crash loses at most one, and
 /// running the import again skips what was written).
@@ -36,7 +38,7 @@ const CHUNK: usize = 5_000;
 const PIECE: usize = 250;
 
 /// A record ready to write: as first written (before its amendments), with its
-/// analysis snapshot as JSON text.
+/// prediction as JSON text.
 struct Record {
     first: Batch,
     prediction_json: String,
@@ -68,16 +70,13 @@ fn record(batch: Batch) -> std::result::Result<Record, String> {
     })
 }
 
-/// Reads one line. The analysis snapshot, most of the line, is kept as the text
+/// Reads one line. The prediction, most of the line, is kept as the text
 /// it was (checked to be JSON) rather than parsed into a tree and written out again.
 fn parse_line(text: &str) -> std::result::Result<Record, String> {
     // A byte-order mark, as some editors put at the start of a file, and a Windows
     // line end are not part of the record.
     let text = text.trim_start_matches('\u{feff}').trim_end();
-    let (batch, prediction) = read_batch(text).map_err(|e| match e {
-        StoreError::Invalid(why) => why,
-        other => other.to_string(),
-    })?;
+    let (batch, prediction) = read_batch(text).map_err(|e| e.0)?;
     Ok(Record {
         first: first_written(batch)?,
         prediction_json: prediction.to_owned(),

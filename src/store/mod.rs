@@ -1,45 +1,42 @@
 //! The batch log: a local SQLite file holding recipes and their immutable
-//! versions, batches with their lines, lots, measurements, notes, analysis snapshots
+//! versions, batches with their lines, lots, measurements, notes, predictions
 //! and the append-only amendment trail, plus settings. This is the only module that
-//! speaks SQL; it hands out plain domain types ([`Batch`], [`BatchSummary`], ...).
+//! speaks SQLite and it holds no domain logic: it keeps and hands out the batch
+//! domain's plain types ([`crate::batch::Batch`], [`crate::batch::BatchSummary`], ...).
 //!
 //! - [`open`]: where the file lives, what is refused, connection settings.
 //! - [`migrate`]: the forward-only migrations of `schema.sql`.
 //! - [`tx`]: immediate write transactions with a bounded retry.
-//! - `recipes`, `batches`, `query`: reading and writing records.
-//! - [`jsonl`], [`csv`] and `import`: export and import.
-//! - [`plan`]: a recipe scaled to a batch size, ready for [`Store::new_batch`].
+//! - `recipes`, `batches`, `records`: writing records; `record`, `list`: reading them.
+//! - `import` (with `guards` and `checkpoint`): JSON Lines in; [`Store::each_batch`]: out.
 //!
 //! Every write is one transaction: a crash or a refused request leaves nothing half
 //! written. Final records are never updated in place; triggers in the schema enforce it.
 
-pub mod amend;
 pub mod backup;
 mod batches;
 mod checkpoint;
-pub mod csv;
+mod columns;
 mod error;
+mod export;
 mod guards;
 mod import;
-pub mod jsonl;
+mod list;
 pub mod migrate;
 pub mod open;
-pub mod plan;
-mod query;
 mod recipes;
+mod record;
 mod records;
 mod rows;
 mod search;
 mod seed;
 pub mod tx;
 mod types;
-pub mod values;
 
 use std::path::{Path, PathBuf};
 
 use rusqlite::Connection;
 
-pub use amend::Edit;
 pub use error::{Result, StoreError};
 pub use types::*;
 
@@ -92,7 +89,7 @@ impl Store {
     }
 
     /// Runs SQLite's integrity and foreign-key checks and checks that every analysis
-    /// snapshot is JSON; returns the problems found.
+    /// prediction is JSON; returns the problems found.
     pub fn check(&self) -> Result<Vec<String>> {
         let mut problems = Vec::new();
         let mut integrity = self.conn.prepare("PRAGMA integrity_check")?;
@@ -115,15 +112,15 @@ impl Store {
         for row in rows {
             problems.push(row?);
         }
-        // The store checks each snapshot as it writes it; the schema does not (see
-        // migration 2), so this is where a snapshot written by other means shows up.
-        let mut snapshots = self.conn.prepare(
+        // The store checks each prediction as it writes it; the schema does not (see
+        // migration 2), so this is where a prediction written by other means shows up.
+        let mut predictions = self.conn.prepare(
             "SELECT batch_id FROM batch_predictions WHERE NOT json_valid(analysis) ORDER BY batch_id",
         )?;
-        let rows = snapshots.query_map([], |r| r.get::<_, i64>(0))?;
+        let rows = predictions.query_map([], |r| r.get::<_, i64>(0))?;
         for row in rows {
             problems.push(format!(
-                "analysis snapshot: the snapshot of batch row {} is not valid JSON",
+                "prediction: the prediction of batch row {} is not valid JSON",
                 row?
             ));
         }

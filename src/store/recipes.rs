@@ -3,9 +3,13 @@
 
 use rusqlite::{OptionalExtension, Transaction, params};
 
+use super::Store;
 use super::error::{Result, StoreError};
-use super::types::{CustomItem, RecipeSummary, RecipeVersion};
-use super::{Store, values};
+use super::types::{CustomItem, RecipeSummary};
+use crate::batch::RecipeVersion;
+use crate::batch::version::content_hash;
+use crate::clock;
+use crate::model::time::time_text;
 
 /// Row ids of a saved recipe version.
 #[derive(Debug, Clone, Copy)]
@@ -24,7 +28,7 @@ fn recipe_id(tx: &Transaction, name: &str) -> Result<i64> {
     }
     tx.execute(
         "INSERT INTO recipes (name, created_at) VALUES (?1, ?2)",
-        params![name, values::time_text(&values::now())],
+        params![name, time_text(&clock::now())],
     )?;
     Ok(tx.last_insert_rowid())
 }
@@ -39,7 +43,7 @@ pub(crate) fn save_version(
         return Err(StoreError::Invalid("a recipe needs a name".into()));
     }
     let recipe_id = recipe_id(tx, name)?;
-    let hash = values::content_hash(text);
+    let hash = content_hash(text);
     let newest: Option<(i64, u32, String)> = tx
         .query_row(
             "SELECT id, version, content_hash FROM recipe_versions
@@ -86,13 +90,7 @@ fn insert_version(
     tx.execute(
         "INSERT INTO recipe_versions (recipe_id, version, text, content_hash, created_at)
          VALUES (?1, ?2, ?3, ?4, ?5)",
-        params![
-            recipe_id,
-            version,
-            text,
-            hash,
-            values::time_text(&values::now())
-        ],
+        params![recipe_id, version, text, hash, time_text(&clock::now())],
     )?;
     Ok(tx.last_insert_rowid())
 }
@@ -101,7 +99,7 @@ fn insert_version(
 /// that number. Refuses when this database has different text under that number.
 pub(crate) fn ensure_version(tx: &Transaction, v: &RecipeVersion) -> Result<VersionIds> {
     let recipe_id = recipe_id(tx, &v.recipe)?;
-    let hash = values::content_hash(&v.text);
+    let hash = content_hash(&v.text);
     if hash != v.content_hash {
         return Err(StoreError::Invalid(format!(
             "the recipe text of `{}` version {} does not match its recorded hash {}",
@@ -230,7 +228,7 @@ impl Store {
                     item.id,
                     item.name,
                     item.definition,
-                    values::time_text(&values::now())
+                    time_text(&clock::now())
                 ],
             )?;
             Ok(())

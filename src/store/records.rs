@@ -9,8 +9,10 @@ use super::error::{Result, StoreError};
 use super::recipes::VersionIds;
 use super::rows;
 use super::search::{self, Pending, Slot};
-use super::types::{Amendment, Batch, Measurement, Note, Status};
-use super::values;
+use crate::batch::validate::{check_finite, check_name, check_record};
+use crate::batch::{Amendment, Batch, Measurement, Note, Status};
+use crate::clock;
+use crate::model::time::time_text;
 
 /// Rows per statement (a power of two; see [`rows::insert`]).
 const GROUP: usize = 32;
@@ -21,46 +23,9 @@ pub(crate) struct NewRecord<'a> {
     pub ids: VersionIds,
     /// The record: `operator` and `lines` as first recorded, then its trail.
     pub batch: &'a Batch,
-    /// Its analysis snapshot as JSON text (`batch.prediction` is not read, so an
+    /// Its prediction as JSON text (`batch.prediction` is not read, so an
     /// import can pass the text it read without parsing it).
     pub prediction_json: &'a str,
-}
-
-pub(crate) fn check_finite(what: &str, value: f64) -> Result<()> {
-    if value.is_finite() {
-        Ok(())
-    } else {
-        Err(StoreError::Invalid(format!(
-            "{what} must be a number, not {value}"
-        )))
-    }
-}
-
-pub(crate) fn check_name(what: &str, name: &str) -> Result<()> {
-    if name.trim().is_empty() {
-        Err(StoreError::Invalid(format!("{what} must not be empty")))
-    } else {
-        Ok(())
-    }
-}
-
-/// What the schema does not check itself: names, a positive size, finite masses.
-fn check_record(batch: &Batch) -> Result<()> {
-    check_name("the operator", &batch.operator)?;
-    check_finite("the batch size", batch.size_g)?;
-    if batch.size_g <= 0.0 {
-        return Err(StoreError::Invalid(format!(
-            "a batch size of {} g is not possible; give a size above zero",
-            batch.size_g
-        )));
-    }
-    for line in &batch.lines {
-        check_finite("a planned mass", line.planned_g)?;
-        if let Some(a) = line.actual_g {
-            check_finite("an actual mass", a)?;
-        }
-    }
-    Ok(())
 }
 
 /// How a record's sign-off is stored: status, and when and by whom.
@@ -72,7 +37,7 @@ struct SignOff<'a> {
 }
 
 fn sign_off(batch: &Batch) -> SignOff<'_> {
-    let made_at = values::time_text(&batch.made_at);
+    let made_at = time_text(&batch.made_at);
     match batch.status {
         Status::Draft => SignOff {
             made_at,
@@ -83,15 +48,13 @@ fn sign_off(batch: &Batch) -> SignOff<'_> {
         Status::Final | Status::Amended => SignOff {
             made_at,
             status: "final",
-            at: Some(values::time_text(
-                &batch.finalized_at.unwrap_or(batch.made_at),
-            )),
+            at: Some(time_text(&batch.finalized_at.unwrap_or(batch.made_at))),
             by: Some(batch.finalized_by.as_deref().unwrap_or_default()),
         },
     }
 }
 
-/// Writes whole records (with lines, snapshot, notes, measurements and amendments)
+/// Writes whole records (with lines, prediction, notes, measurements and amendments)
 /// and queues their search entries on `search`; returns their row ids, in order.
 /// Everything is checked before anything is written.
 ///
@@ -113,7 +76,7 @@ pub(crate) fn insert_records(
         r.get(0)
     })?;
     let ids: Vec<i64> = (first..).take(records.len()).collect();
-    let now = values::time_text(&values::now());
+    let now = time_text(&clock::now());
 
     let signed: Vec<SignOff> = records.iter().map(|r| sign_off(r.batch)).collect();
     let heads: Vec<[&dyn ToSql; 11]> = records
@@ -173,7 +136,7 @@ pub(crate) fn insert_records(
         GROUP,
     )?;
 
-    let snapshots: Vec<[&dyn ToSql; 2]> = records
+    let predictions: Vec<[&dyn ToSql; 2]> = records
         .iter()
         .zip(&ids)
         .map(|(r, id)| [id as &dyn ToSql, &r.prediction_json])
@@ -181,7 +144,7 @@ pub(crate) fn insert_records(
     rows::insert(
         tx,
         "INSERT INTO batch_predictions (batch_id, analysis)",
-        &snapshots,
+        &predictions,
         GROUP,
     )?;
 
@@ -217,7 +180,7 @@ pub(crate) fn insert_notes(tx: &Transaction, notes: &[(i64, &Note)]) -> Result<(
     }
     let times: Vec<String> = notes
         .iter()
-        .map(|(_, n)| values::time_text(&n.written_at))
+        .map(|(_, n)| time_text(&n.written_at))
         .collect();
     let rows: Vec<[&dyn ToSql; 4]> = notes
         .iter()
@@ -239,13 +202,7 @@ pub(crate) fn insert_measurements(tx: &Transaction, list: &[(i64, &Measurement)]
     }
     let texts: Vec<(&str, &str, String)> = list
         .iter()
-        .map(|(_, m)| {
-            (
-                m.kind.as_str(),
-                m.kind.unit(),
-                values::time_text(&m.taken_at),
-            )
-        })
+        .map(|(_, m)| (m.kind.as_str(), m.kind.unit(), time_text(&m.taken_at)))
         .collect();
     let rows: Vec<[&dyn ToSql; 6]> = list
         .iter()
@@ -267,7 +224,7 @@ pub(crate) fn insert_amendments(tx: &Transaction, list: &[(i64, &Amendment)]) ->
         check_name("the reason for an amendment", &a.reason)?;
         let changes = serde_json::to_string(&a.changes)
             .map_err(|e| StoreError::Invalid(format!("the changes could not be written: {e}")))?;
-        texts.push((values::time_text(&a.amended_at), changes));
+        texts.push((time_text(&a.amended_at), changes));
     }
     let rows: Vec<[&dyn ToSql; 5]> = list
         .iter()

@@ -15,7 +15,7 @@
 use rusqlite::Transaction;
 
 use super::error::Result;
-use super::types::{Amendment, Change};
+use crate::batch::{Amendment, Change};
 
 /// Entries per batch (`2^20`); the slots of one batch lie below it.
 pub(crate) const PER_BATCH: i64 = 1 << 20;

@@ -5,10 +5,10 @@
 
 use std::path::PathBuf;
 
+use crate::batch::{Edit, MeasurementKind};
 use crate::model::Recipe;
-use crate::store::{Edit, MeasurementKind};
 
-use super::state::{RecipeSource, Settings};
+use super::state::{RecipeEntry, RecipeSource, Settings};
 
 /// Declares the commands once: the enum, the list of all of them, and their names
 /// and descriptions, so help text and tests can never drift from the enum.
@@ -159,15 +159,6 @@ pub enum Action {
     Failed(String),
     /// Something the loop did went right; the message says what.
     Info(String),
-}
-
-/// A recipe in the database, as the open dialog lists it.
-#[derive(Debug, Clone, PartialEq)]
-pub struct RecipeEntry {
-    /// Name (unique in the database).
-    pub name: String,
-    /// Newest version number.
-    pub version: u32,
 }
 
 /// I/O for the loop to carry out; the outcome comes back as an [`Action`].

@@ -3,26 +3,16 @@
 //! and carry out the effects, whose outcomes are actions again.
 
 use std::collections::VecDeque;
-use std::path::PathBuf;
 
 use ratatui::crossterm::event::{self, Event};
 
 use super::action::{Action, Effect};
-use super::effects::Services;
+use super::effects::{Launch, Services};
 use super::keymap;
 use super::state::State;
 use super::terminal;
 use super::update::update;
 use super::view::view;
-
-/// How the workspace was asked to start.
-#[derive(Debug, Clone, Default)]
-pub struct Launch {
-    /// The database file (`None`: the default one).
-    pub db: Option<PathBuf>,
-    /// A recipe file to open (`gelu edit FILE`).
-    pub file: Option<PathBuf>,
-}
 
 /// Whether colour may be used: not when NO_COLOR is set to anything non-empty.
 pub fn colour_allowed() -> bool {

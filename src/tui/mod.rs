@@ -16,17 +16,16 @@
 pub mod action;
 pub mod app;
 pub mod effects;
-pub mod file_edit;
+pub mod handlers;
 pub mod keymap;
-pub mod screens;
 pub mod state;
 pub mod terminal;
-pub mod units;
 pub mod update;
 pub mod view;
 
 pub use action::{Action, Command, Effect};
-pub use app::{Launch, run};
+pub use app::run;
+pub use effects::Launch;
 pub use state::State;
 pub use update::update;
 pub use view::view;

@@ -8,7 +8,7 @@
 use tui_input::{Input, InputRequest};
 
 use super::action::{Action, Command, Effect};
-use super::screens::{batches, ingredients, own_items, recipe, settings};
+use super::handlers::{batch_forms, batches, ingredients, own_items, recipe, settings};
 use super::state::{Overlay, PickerPurpose, Question, ReaderKind, Screen, State};
 
 /// Applies one action to the state and returns the effects it asks for.
@@ -52,7 +52,7 @@ pub fn update(state: &mut State, action: Action) -> Vec<Effect> {
         Action::OwnLibraryLoaded(own) => {
             state.own = own;
             state.refresh_catalog();
-            ingredients::refresh_matches(state);
+            state.refresh_ingredient_matches();
             state.reanalyse();
             Vec::new()
         }
@@ -239,7 +239,7 @@ fn reader_rows(state: &State, kind: ReaderKind) -> usize {
         ReaderKind::Help(context) => {
             let mut sections = vec![context];
             if context.is_browsing() {
-                sections.push(super::keymap::Context::Global);
+                sections.push(super::state::Context::Global);
             }
             sections
                 .into_iter()
@@ -375,7 +375,7 @@ fn check_form(state: &State, form: &mut super::state::Form) {
     use super::state::FormPurpose as F;
     match &form.purpose {
         F::Ingredient(_) | F::Solute(_) => own_items::check_form(state, form),
-        F::Batch | F::Measurement(_) | F::Amend(_) => batches::check_form(state, form),
+        F::Batch | F::Measurement(_) | F::Amend(_) => batch_forms::check_form(state, form),
     }
 }
 
@@ -384,7 +384,7 @@ fn submit_form(state: &mut State, mut form: super::state::Form) -> Vec<Effect> {
     check_form(state, &mut form);
     let outcome = match &form.purpose {
         F::Ingredient(_) | F::Solute(_) => own_items::submit(state, &form),
-        F::Batch | F::Measurement(_) | F::Amend(_) => batches::submit(state, &form),
+        F::Batch | F::Measurement(_) | F::Amend(_) => batch_forms::submit(state, &form),
     };
     match outcome {
         Ok(effects) => effects,

@@ -4,13 +4,14 @@
 
 use std::path::Path;
 
+use crate::batch::compare::comparisons;
+use crate::batch::{Batch, BatchSummary};
 use crate::model::{Amount, Ingredient, Line, Recipe, Solute};
 use crate::recipe_file::{parse_recipe, recipe_to_toml};
-use crate::store::{Batch, BatchSummary, CustomItem, MeasurementKind, Store};
+use crate::store::{CustomItem, Store};
 
-use super::super::state::{
-    BatchDetailView, BatchRow, Comparison, MassUnit, MeasurementRow, OwnLibrary, Settings, TempUnit,
-};
+use super::super::state::{BatchDetailView, BatchRow, MeasurementRow, OwnLibrary, Settings};
+use crate::model::{MassUnit, TempUnit};
 
 const KEY_TEMP: &str = "workspace.temp_unit";
 const KEY_MASS: &str = "workspace.mass_unit";
@@ -143,31 +144,14 @@ pub fn row(b: &BatchSummary) -> BatchRow {
         size_g: b.size_g,
         operator: b.operator.clone(),
         status: b.status.as_str().to_string(),
-        finalized: b.status != crate::store::Status::Draft,
+        finalized: b.status != crate::batch::Status::Draft,
         cursor: Some(b.cursor.clone()),
     }
 }
 
 /// One batch in full, with predicted against measured figures.
 pub fn detail(b: &Batch) -> BatchDetailView {
-    let comparisons = MeasurementKind::ALL
-        .into_iter()
-        .filter_map(|kind| {
-            let key = kind.prediction_key()?;
-            let predicted = b.prediction.get(key).and_then(serde_json::Value::as_f64);
-            let measured = b
-                .measurements
-                .iter()
-                .rev()
-                .find(|m| m.kind == kind)
-                .map(|m| m.value);
-            Some(Comparison {
-                kind,
-                predicted,
-                measured,
-            })
-        })
-        .collect();
+    let comparisons = comparisons(b);
     let mut notes: Vec<(String, String, String)> = b
         .notes
         .iter()
@@ -190,7 +174,7 @@ pub fn detail(b: &Batch) -> BatchDetailView {
             size_g: b.size_g,
             operator: b.operator.clone(),
             status: b.status.as_str().to_string(),
-            finalized: b.status != crate::store::Status::Draft,
+            finalized: b.status != crate::batch::Status::Draft,
             cursor: None,
         },
         lines: b

@@ -9,17 +9,30 @@ use std::path::{Path, PathBuf};
 
 use anyhow::Context as _;
 
+use crate::analysis::Options;
+use crate::batch::plan::{Plan, plan_batch};
+use crate::batch::{BatchFilter, LineRef};
+use crate::catalog::Catalog;
+use crate::clock;
+use crate::model::Amount;
 use crate::model::Recipe;
+use crate::model::time::{DayEnd, parse_date_bound};
 use crate::recipe_file::{parse_recipe, read_recipe, recipe_to_toml};
-use crate::store::plan::{BatchSize, Plan, plan_batch};
-use crate::store::{BatchFilter, CustomItem, Store};
+use crate::store::{CustomItem, Store};
 
-use super::action::{Action, Effect, RecipeEntry};
-use super::app::Launch;
-use super::file_edit;
-use super::state::{BatchPage, BatchQuery, BatchRequest, RecipeSource};
+use super::action::{Action, Effect};
+use super::state::{BatchPage, BatchQuery, BatchRequest, RecipeEntry, RecipeSource};
 
 pub use convert::{load_settings, settings_pairs};
+
+/// How the workspace was asked to start.
+#[derive(Debug, Clone, Default)]
+pub struct Launch {
+    /// The database file (`None`: the default one).
+    pub db: Option<PathBuf>,
+    /// A recipe file to open (`gelu edit FILE`).
+    pub file: Option<PathBuf>,
+}
 
 /// Setting that holds the name of the recipe last opened or saved in the database.
 const LAST_RECIPE_KEY: &str = "workspace.last_recipe";
@@ -247,7 +260,7 @@ fn loaded_file(path: &Path, recipe: Recipe, text: String) -> Action {
 }
 
 fn save_file(path: &Path, original: Option<&str>, recipe: Recipe) -> anyhow::Result<Action> {
-    let out = file_edit::rewrite(path, original, &recipe);
+    let out = crate::recipe_file::rewrite(path, original, &recipe);
     let tmp = path.with_extension("toml.saving");
     std::fs::write(&tmp, &out.text)
         .with_context(|| format!("could not write {}; the file is unchanged", tmp.display()))?;
@@ -290,16 +303,12 @@ fn save_version(store: &mut Store, recipe: Recipe) -> anyhow::Result<Action> {
 }
 
 fn load_page(store: &Store, query: BatchQuery) -> anyhow::Result<BatchPage> {
-    let since = match &query.since {
-        Some(day) => Some(
-            chrono::NaiveDate::parse_from_str(day, "%Y-%m-%d")
-                .with_context(|| format!("`{day}` is not a date"))?
-                .and_hms_opt(0, 0, 0)
-                .map(|t| t.and_utc())
-                .context("not a time")?,
-        ),
-        None => None,
-    };
+    let since = query
+        .since
+        .as_deref()
+        .map(|day| parse_date_bound(day, DayEnd::Start))
+        .transpose()
+        .map_err(anyhow::Error::msg)?;
     let filter = BatchFilter {
         recipe: query.recipe.clone(),
         since,
@@ -323,23 +332,27 @@ fn start_batch(store: &mut Store, request: BatchRequest) -> anyhow::Result<Actio
         .recipe_text
         .clone()
         .unwrap_or_else(|| recipe_to_toml(&request.recipe));
-    let lots: Vec<(String, String)> = request
+    let lots: Vec<(LineRef, String)> = request
         .lots
         .iter()
         .enumerate()
         .filter(|(_, lot)| !lot.trim().is_empty())
-        .map(|(k, lot)| ((k + 1).to_string(), lot.trim().to_string()))
+        .map(|(k, lot)| (LineRef::Number(k + 1), lot.trim().to_string()))
         .collect();
     let note = (!request.note.trim().is_empty()).then_some(request.note.as_str());
-    let new = plan_batch(&Plan {
-        recipe: &request.recipe,
-        recipe_text: &text,
-        size: BatchSize::Grams(request.size_g),
-        operator: &request.operator,
-        lots: &lots,
-        note,
-        made_at: chrono::Utc::now(),
-    })?;
+    let new = plan_batch(
+        &Plan {
+            recipe: &request.recipe,
+            recipe_text: &text,
+            size: Amount::Grams(request.size_g),
+            operator: &request.operator,
+            lots: &lots,
+            note,
+            made_at: clock::now(),
+        },
+        Catalog::builtin(),
+        &Options::default(),
+    )?;
     let batch = store.new_batch(&new)?;
     Ok(Action::BatchChanged {
         message: format!(

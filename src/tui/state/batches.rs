@@ -1,8 +1,9 @@
 //! The batch log's part of the state: the query, the rows loaded so far, one
 //! batch's detail, and a new batch about to be recorded.
 
+use crate::batch::compare::Comparison;
+use crate::batch::{BatchCursor, MeasurementKind};
 use crate::model::Recipe;
-use crate::store::{BatchCursor, MeasurementKind};
 
 /// What the batch log shows.
 #[derive(Debug, Clone, PartialEq, Default)]
@@ -51,17 +52,6 @@ pub struct BatchPage {
     pub rows: Vec<BatchRow>,
     /// Whether older rows exist.
     pub more: bool,
-}
-
-/// A figure predicted for a batch, with what was measured.
-#[derive(Debug, Clone, PartialEq)]
-pub struct Comparison {
-    /// What.
-    pub kind: MeasurementKind,
-    /// The prediction, in the kind's unit.
-    pub predicted: Option<f64>,
-    /// The latest measurement, in the kind's unit.
-    pub measured: Option<f64>,
 }
 
 /// One measurement of a batch.

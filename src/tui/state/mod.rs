@@ -8,14 +8,15 @@ use crate::analysis::{
     DEFAULT_SERVING_FROZEN_FRACTION, Options,
 };
 use crate::catalog::Catalog;
-use crate::model::{Ingredient, Recipe, Solute};
-
-use super::keymap::Context;
+use crate::model::units::trim_number;
+use crate::model::{Ingredient, MassUnit, Recipe, Solute, TempUnit};
 
 mod batches;
+mod context;
 mod overlay;
 
 pub use batches::*;
+pub use context::Context;
 pub use overlay::*;
 
 /// The screens, in tab order.
@@ -59,18 +60,6 @@ impl Screen {
             Screen::Settings => Context::Settings,
         }
     }
-}
-
-pub use crate::model::TempUnit;
-
-/// How masses are shown.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
-pub enum MassUnit {
-    /// Grams and kilograms.
-    #[default]
-    Grams,
-    /// Ounces and pounds (avoirdupois).
-    Imperial,
 }
 
 /// The user's settings, stored in the database.
@@ -185,6 +174,27 @@ pub struct OwnLibrary {
     pub ingredients: Vec<Ingredient>,
 }
 
+impl Settings {
+    /// The value of a setting as it is typed (and shown, before its unit).
+    pub fn field_text(&self, field: SettingField) -> String {
+        match field {
+            SettingField::TempUnit => self.temp_unit.symbol().into(),
+            SettingField::MassUnit => match self.mass_unit {
+                MassUnit::Grams => "g and kg".into(),
+                MassUnit::Imperial => "oz and lb".into(),
+            },
+            SettingField::ServingTarget => trim_number(100.0 * self.serving_frozen_fraction),
+            SettingField::CabinetTemp => {
+                format!("{:.1}", self.temp_unit.from_c(self.cabinet_temp_c))
+            }
+            SettingField::FreezerTemp => {
+                format!("{:.1}", self.temp_unit.from_c(self.freezer_temp_c))
+            }
+            SettingField::Operator => self.operator.clone(),
+        }
+    }
+}
+
 /// The rows of the settings screen.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum SettingField {
@@ -254,6 +264,44 @@ pub struct State {
 }
 
 impl State {
+    /// The id under the cursor of the ingredients screen.
+    pub fn selected_ingredient_id(&self) -> Option<String> {
+        self.ingredients
+            .matches
+            .get(self.ingredients.cursor)
+            .cloned()
+    }
+
+    /// Recomputes the ids the ingredients screen shows for its list and search
+    /// text, sorted by name.
+    pub fn refresh_ingredient_matches(&mut self) {
+        let query = self.ingredients.filter.to_lowercase();
+        let catalog = &self.catalog;
+        let mut rows: Vec<(String, String)> = match self.ingredients.list {
+            CatalogList::Ingredients => catalog
+                .ingredients()
+                .filter(|i| catalog.solute(&i.id).is_none())
+                .map(|i| (i.name.clone(), i.id.clone()))
+                .collect(),
+            CatalogList::Solutes => catalog
+                .solutes()
+                .map(|s| (s.solute.name.clone(), s.solute.id.clone()))
+                .collect(),
+        };
+        rows.retain(|(name, id)| matches_words(&format!("{} {id}", name.to_lowercase()), &query));
+        rows.sort();
+        self.ingredients.matches = rows.into_iter().map(|(_, id)| id).collect();
+        let len = self.ingredients.matches.len();
+        self.ingredients.cursor = self.ingredients.cursor.min(len.saturating_sub(1));
+    }
+
+    /// The display name of an ingredient id (the id itself when unknown).
+    pub fn display_name(&self, id: &str) -> String {
+        self.catalog
+            .ingredient(id)
+            .map_or_else(|| id.to_string(), |i| i.name.clone())
+    }
+
     /// A workspace with an empty recipe and default settings.
     pub fn new(color: bool) -> State {
         let recipe = Recipe {
@@ -288,7 +336,7 @@ impl State {
             color,
         };
         state.refresh_catalog();
-        super::screens::ingredients::refresh_matches(&mut state);
+        state.refresh_ingredient_matches();
         state.reanalyse();
         state
     }
@@ -375,3 +423,17 @@ impl State {
 pub const BATCH_PAGE: usize = 200;
 /// Rows moved by PgUp/PgDn.
 pub const PAGE_ROWS: usize = 10;
+
+/// A recipe in the database, as the open dialog lists it.
+#[derive(Debug, Clone, PartialEq)]
+pub struct RecipeEntry {
+    /// Name (unique in the database).
+    pub name: String,
+    /// Newest version number.
+    pub version: u32,
+}
+
+/// Whether every word of `query` occurs in `haystack` (both lower-cased by the caller).
+pub fn matches_words(haystack: &str, query: &str) -> bool {
+    query.split_whitespace().all(|w| haystack.contains(w))
+}

@@ -3,8 +3,8 @@
 
 use tui_input::Input;
 
-use super::super::action::RecipeEntry;
-use super::super::keymap::Context;
+use super::Context;
+use super::RecipeEntry;
 use super::SettingField;
 
 /// What a one-line prompt is for.

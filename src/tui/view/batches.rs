@@ -8,11 +8,11 @@ use ratatui::text::{Line, Span};
 use ratatui::widgets::{Block, Paragraph, Row, Table, TableState, Wrap};
 
 use super::super::state::{BatchDetailView, State};
-use crate::store::MeasurementKind;
+use crate::batch::MeasurementKind;
 
-use super::super::state::TempUnit;
-use super::super::units::{fmt_mass, fmt_temp, trim_number};
 use super::theme::{CURSOR_MARK, Theme};
+use crate::model::TempUnit;
+use crate::model::units::{format_mass, trim_number};
 
 /// Draws the batch log or the open batch.
 pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
@@ -60,7 +60,7 @@ fn render_list(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
                 format!("{mark}{}", r.code),
                 made,
                 format!("{} v{}", r.recipe_name, r.version),
-                fmt_mass(r.size_g, unit),
+                format_mass(r.size_g, unit),
                 r.operator.clone(),
                 status.to_string(),
             ])
@@ -134,7 +134,7 @@ fn render_detail(state: &State, d: &BatchDetailView, theme: Theme, frame: &mut F
         )),
         Line::from(format!("Made       {}", d.row.made_at.replace('T', " "))),
         Line::from(format!("Operator   {}", d.row.operator)),
-        Line::from(format!("Size       {}", fmt_mass(d.row.size_g, unit))),
+        Line::from(format!("Size       {}", format_mass(d.row.size_g, unit))),
         Line::from(if d.row.finalized {
             "State      final (corrections are amendments)"
         } else {
@@ -146,7 +146,7 @@ fn render_detail(state: &State, d: &BatchDetailView, theme: Theme, frame: &mut F
         let lot = if lot.is_empty() { "-" } else { lot };
         lines.push(Line::from(format!(
             "  {name}: {}  lot {lot}",
-            fmt_mass(*grams, unit)
+            format_mass(*grams, unit)
         )));
     }
     frame.render_widget(
@@ -217,7 +217,7 @@ pub fn kind_label(kind: MeasurementKind) -> &'static str {
 /// A measured or predicted value with its unit; temperatures in the display unit.
 pub fn measured_text(kind: MeasurementKind, value: f64, unit: TempUnit) -> String {
     match kind.unit() {
-        "°C" => fmt_temp(value, unit),
+        "°C" => unit.format(value),
         "g" => format!("{value:.0} g"),
         other => format!("{} {other}", trim_number((value * 100.0).round() / 100.0)),
     }

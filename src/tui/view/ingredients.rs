@@ -10,8 +10,8 @@ use ratatui::widgets::{Block, Paragraph, Row, Table, TableState, Wrap};
 use crate::thermo::binary::WaterModel;
 
 use super::super::state::{CatalogList, State};
-use super::super::units::trim_number;
 use super::theme::{CURSOR_MARK, Theme};
+use crate::model::units::trim_number;
 
 /// Draws the ingredients screen.
 pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
@@ -80,7 +80,7 @@ fn row(label: &str, value: String) -> Line<'static> {
 }
 
 fn render_detail(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
-    let id = super::super::screens::ingredients::selected_id(state);
+    let id = state.selected_ingredient_id();
     let mut lines: Vec<Line> = Vec::new();
     let mut title = " Detail ".to_string();
     match (state.ingredients.list, id) {

@@ -9,7 +9,8 @@ use ratatui::widgets::{Block, Clear, Paragraph, Wrap};
 use tui_input::Input;
 
 use super::super::action::Command;
-use super::super::keymap::{self, Context};
+use super::super::keymap;
+use super::super::state::Context;
 use super::super::state::{Form, Overlay, Picker, Prompt, Question, ReaderKind, State};
 use super::theme::{CURSOR_MARK, PROBLEM_MARK, Theme};
 use super::{centered, fit};

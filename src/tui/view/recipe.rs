@@ -13,9 +13,9 @@ use ratatui::widgets::{
 use crate::analysis::{Analysis, Severity};
 
 use super::super::state::State;
-use super::super::units::{fmt_amount, fmt_mass, fmt_temp, fmt_temp_opt, temp_symbol, temp_value};
 use super::fit;
 use super::theme::{ADVICE_MARK, CAUTION_MARK, CURSOR_MARK, NOTE_MARK, PROBLEM_MARK, Theme};
+use crate::model::units::{format_amount, format_mass};
 
 /// Coldest temperature the chart shows (°C).
 pub const CHART_MIN_C: f64 = -30.0;
@@ -47,24 +47,24 @@ fn render_lines(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
         .iter()
         .enumerate()
         .map(|(k, line)| {
-            let name = super::super::screens::recipe::display_name(state, &line.ingredient);
+            let name = state.display_name(&line.ingredient);
             let share = analysis
                 .and_then(|a| a.line_mass_g.get(k).map(|g| 100.0 * g / a.mass_g))
                 .map_or("-".to_string(), |p| format!("{p:.1}"));
             let mark = if k == r.cursor { CURSOR_MARK } else { "  " };
             Row::new(vec![
                 Cell::from(format!("{mark}{name}")),
-                Cell::from(Line::from(fmt_amount(line.amount, unit)).right_aligned()),
+                Cell::from(Line::from(format_amount(line.amount, unit)).right_aligned()),
                 Cell::from(Line::from(share).right_aligned()),
             ])
         })
         .collect();
     // Pounds and ounces ("12 lb 13.5 oz") need more room than grams.
     let amount_w = match unit {
-        super::super::state::MassUnit::Grams => 10,
-        super::super::state::MassUnit::Imperial => 13,
+        crate::model::MassUnit::Grams => 10,
+        crate::model::MassUnit::Imperial => 13,
     };
-    let total = analysis.map_or("-".to_string(), |a| fmt_mass(a.mass_g, unit));
+    let total = analysis.map_or("-".to_string(), |a| format_mass(a.mass_g, unit));
     let dirty = if r.is_dirty() { " *" } else { "" };
     let title = format!(" {}{dirty} ", r.recipe.name);
     let table = Table::new(
@@ -129,7 +129,7 @@ fn render_figures(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
                 figure(
                     theme,
                     "Freezing point",
-                    fmt_temp_opt(a.freezing_point_c, t),
+                    t.format_opt(a.freezing_point_c),
                     width,
                 ),
                 figure(
@@ -138,18 +138,18 @@ fn render_figures(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
                         "Serve at ({:.0} % frozen)",
                         100.0 * a.serving_frozen_fraction
                     ),
-                    fmt_temp_opt(a.serving_temp_c, t),
+                    t.format_opt(a.serving_temp_c),
                     width,
                 ),
                 figure(
                     theme,
-                    &format!("Frozen, cabinet {}", fmt_temp(a.cabinet.temp_c, t)),
+                    &format!("Frozen, cabinet {}", t.format(a.cabinet.temp_c)),
                     pct(100.0 * a.cabinet.frozen_fraction),
                     width,
                 ),
                 figure(
                     theme,
-                    &format!("Frozen, freezer {}", fmt_temp(a.freezer.temp_c, t)),
+                    &format!("Frozen, freezer {}", t.format(a.freezer.temp_c)),
                     pct(100.0 * a.freezer.frozen_fraction),
                     width,
                 ),
@@ -167,7 +167,7 @@ fn render_figures(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
                 figure(
                     theme,
                     "Dilute-law freezing point",
-                    fmt_temp_opt(a.dilute_law_freezing_point_c, t),
+                    t.format_opt(a.dilute_law_freezing_point_c),
                     width,
                 ),
                 figure(theme, "Water", pct(c.water_pct), width),
@@ -183,7 +183,7 @@ fn render_figures(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
                     "Mass, volume",
                     format!(
                         "{}, {:.2} L",
-                        fmt_mass(a.mass_g, state.settings.mass_unit),
+                        format_mass(a.mass_g, state.settings.mass_unit),
                         a.volume_ml / 1000.0
                     ),
                     width,
@@ -346,13 +346,13 @@ fn render_chart(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
         .ice_curve
         .iter()
         .filter(|p| p.temp_c >= CHART_MIN_C)
-        .map(|p| (temp_value(p.temp_c, t), 100.0 * p.frozen_fraction))
+        .map(|p| (t.from_c(p.temp_c), 100.0 * p.frozen_fraction))
         .collect();
     let marks = marks(a);
     let mark_lines: Vec<[(f64, f64); 2]> = marks
         .iter()
         .map(|(_, temp_c, _, _)| {
-            let x = temp_value(temp_c.max(CHART_MIN_C), t);
+            let x = t.from_c(temp_c.max(CHART_MIN_C));
             [(x, 0.0), (x, 100.0)]
         })
         .collect();
@@ -379,15 +379,15 @@ fn render_chart(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
         .iter()
         .map(|(label, temp_c, _, symbol)| {
             if wide {
-                format!("{symbol} {label} {}", fmt_temp(*temp_c, t))
+                format!("{symbol} {label} {}", t.format(*temp_c))
             } else {
-                format!("{symbol}{label} {:.1}", temp_value(*temp_c, t))
+                format!("{symbol}{label} {:.1}", t.from_c(*temp_c))
             }
         })
         .collect::<Vec<_>>()
         .join(if wide { "  " } else { " " });
-    let (lo, hi) = (temp_value(CHART_MIN_C, t), temp_value(0.0, t));
-    let sym = temp_symbol(t);
+    let (lo, hi) = (t.from_c(CHART_MIN_C), t.from_c(0.0));
+    let sym = t.symbol();
     let chart = Chart::new(datasets)
         .block(
             Block::bordered()

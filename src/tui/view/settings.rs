@@ -6,14 +6,12 @@ use ratatui::layout::{Constraint, Rect};
 use ratatui::text::Span;
 use ratatui::widgets::{Block, Row, Table, TableState};
 
-use super::super::screens::settings::current_text;
 use super::super::state::{SettingField, State};
-use super::super::units::temp_symbol;
 use super::theme::{CURSOR_MARK, Theme};
 
 /// Draws the settings screen.
 pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
-    let t = temp_symbol(state.settings.temp_unit);
+    let t = state.settings.temp_unit.symbol();
     let rows: Vec<Row> = SettingField::ALL
         .iter()
         .enumerate()
@@ -23,7 +21,7 @@ pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
             } else {
                 "  "
             };
-            let mut value = current_text(state, *field);
+            let mut value = state.settings.field_text(*field);
             match field {
                 SettingField::ServingTarget => value.push_str(" %"),
                 SettingField::CabinetTemp | SettingField::FreezerTemp => {

@@ -1,0 +1,24 @@
+//! The batch domain, pure: what a batch record is ([`types`]), planning one from a
+//! recipe ([`plan`]), correcting it by amendments ([`amend`]), checking it
+//! ([`validate`]), setting its readings against its prediction ([`compare`]), and
+//! its public JSON and CSV forms ([`jsonl`], [`csv`], [`export`]). No SQL, files or
+//! clock here: the store keeps these records, the command line and the workspace
+//! show them, and times are passed in.
+
+pub mod amend;
+pub mod compare;
+pub mod csv;
+pub mod export;
+pub mod jsonl;
+pub mod plan;
+mod types;
+pub mod validate;
+pub mod version;
+
+pub use amend::{Edit, LineRef};
+pub use types::*;
+
+/// A request or record the batch domain refuses, with the reason in plain words.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+#[error("{0}")]
+pub struct Invalid(pub String);

@@ -1,0 +1,118 @@
+//! Planning a batch: a recipe scaled to the batch size (by mass, or by volume for
+//! liqueurs through the analysis' volume), its lines with planned masses and lots,
+//! and the prediction (the analysis of the scaled recipe), ready for the store.
+
+use chrono::{DateTime, Utc};
+
+use super::Invalid;
+use super::amend::{LineRef, resolve_lines};
+use super::types::{BatchLine, NewBatch};
+use crate::analysis::{Options, analyze};
+use crate::catalog::Catalog;
+use crate::model::units::parse_amount;
+use crate::model::{Amount, Recipe};
+use crate::report::json::analysis_json;
+
+type Result<T> = std::result::Result<T, Invalid>;
+
+/// Reads a batch size as people write it: a number and a unit, by mass (`5kg`,
+/// `800 g`, `10 lb`) or by volume (`1.5L`, `750mL`, `5 gallons`); above zero.
+pub fn parse_size(text: &str) -> Result<Amount> {
+    match parse_amount(text, None).map_err(Invalid)? {
+        Amount::Grams(v) | Amount::Millilitres(v) if v <= 0.0 => Err(Invalid(format!(
+            "`{}`: a batch size must be above zero",
+            text.trim()
+        ))),
+        size => Ok(size),
+    }
+}
+
+/// Everything about a batch before it is recorded.
+#[derive(Debug, Clone)]
+pub struct Plan<'a> {
+    /// The parsed recipe.
+    pub recipe: &'a Recipe,
+    /// The recipe file's text, saved as the recipe version.
+    pub recipe_text: &'a str,
+    /// The size to scale to: a mass, or a volume at 20 °C.
+    pub size: Amount,
+    /// Who makes it.
+    pub operator: &'a str,
+    /// Supplier lots: (the line or lines, lot).
+    pub lots: &'a [(LineRef, String)],
+    /// A first note.
+    pub note: Option<&'a str>,
+    /// When it is made.
+    pub made_at: DateTime<Utc>,
+}
+
+fn analysis_error(e: impl std::fmt::Display) -> Invalid {
+    Invalid(format!("the recipe could not be analysed: {e}"))
+}
+
+/// Scales the recipe, analyses it (against `catalog`, with `options`), and
+/// builds the new batch.
+pub fn plan_batch(plan: &Plan<'_>, catalog: &Catalog, options: &Options) -> Result<NewBatch> {
+    let base = analyze(plan.recipe, catalog, options).map_err(analysis_error)?;
+    let factor = match plan.size {
+        Amount::Grams(g) => g / base.mass_g,
+        Amount::Millilitres(ml) => ml / base.volume_ml,
+    };
+    if !factor.is_finite() || factor <= 0.0 {
+        return Err(Invalid(format!(
+            "`{}` has no mass or volume to scale",
+            plan.recipe.name
+        )));
+    }
+    let scaled = plan.recipe.scaled(factor);
+    let analysis = analyze(&scaled, catalog, options).map_err(analysis_error)?;
+    let mut lines: Vec<BatchLine> = scaled
+        .lines
+        .iter()
+        .zip(&analysis.line_mass_g)
+        .map(|(line, &g)| BatchLine {
+            ingredient: line.ingredient.clone(),
+            planned_g: g,
+            actual_g: None,
+            lot: String::new(),
+        })
+        .collect();
+    for (key, lot) in plan.lots {
+        for i in resolve_lines(&lines, key)? {
+            lines[i].lot = lot.clone();
+        }
+    }
+    let size_g = match plan.size {
+        Amount::Grams(g) => g,
+        Amount::Millilitres(_) => analysis.mass_g,
+    };
+    Ok(NewBatch {
+        recipe: plan.recipe.name.clone(),
+        recipe_text: plan.recipe_text.to_owned(),
+        made_at: plan.made_at,
+        size_g,
+        operator: plan.operator.to_owned(),
+        lines,
+        note: plan.note.map(str::to_owned),
+        prediction: analysis_json(&analysis),
+    })
+}
+
+#[cfg(test)]
+mod tests {
+    use super::parse_size;
+    use crate::model::Amount;
+
+    #[test]
+    fn sizes_read_with_units() {
+        assert_eq!(parse_size("5kg"), Ok(Amount::Grams(5000.0)));
+        assert_eq!(parse_size("800 g"), Ok(Amount::Grams(800.0)));
+        assert_eq!(parse_size("1.5L"), Ok(Amount::Millilitres(1500.0)));
+        assert_eq!(parse_size("750mL"), Ok(Amount::Millilitres(750.0)));
+        assert!(parse_size("5 stone").is_err());
+        assert!(parse_size("-2kg").is_err());
+        assert!(parse_size("0 kg").is_err());
+        assert!(parse_size("kg").is_err());
+        assert!(parse_size("5").is_err(), "a size needs a unit");
+    }
+}

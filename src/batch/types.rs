@@ -1,0 +1,357 @@
+//! The batch domain's plain data: batches, their lines, measurements, notes and
+//! amendments, recipe versions, and what to list. The store hands these out and
+//! takes them in; no SQL here. Times are UTC with millisecond precision, masses
+//! are grams.
+
+use chrono::{DateTime, Utc};
+use serde::{Deserialize, Serialize};
+
+/// Where a batch record stands.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
+#[serde(rename_all = "lowercase")]
+pub enum Status {
+    /// Still being made: lines and lots may be added.
+    Draft,
+    /// Signed off: never changed again, only amended.
+    Final,
+    /// Final, with at least one amendment on its trail.
+    Amended,
+}
+
+impl Status {
+    /// The word used in JSON and on screen.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            Status::Draft => "draft",
+            Status::Final => "final",
+            Status::Amended => "amended",
+        }
+    }
+
+    /// Parses `draft`, `final` or `amended`.
+    pub fn parse(text: &str) -> Option<Status> {
+        match text {
+            "draft" => Some(Status::Draft),
+            "final" => Some(Status::Final),
+            "amended" => Some(Status::Amended),
+            _ => None,
+        }
+    }
+}
+
+/// One immutable version of a recipe.
+#[derive(Debug, Clone, PartialEq)]
+pub struct RecipeVersion {
+    /// The recipe's name.
+    pub recipe: String,
+    /// Version number, 1-based, per recipe.
+    pub version: u32,
+    /// `sha256:` and the hex SHA-256 of `text`.
+    pub content_hash: String,
+    /// The recipe file's TOML text, exactly as saved.
+    pub text: String,
+}
+
+/// One ingredient line of a batch.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct BatchLine {
+    /// Ingredient id, as in the recipe.
+    pub ingredient: String,
+    /// Planned mass (g), from the recipe scaled to the batch size.
+    pub planned_g: f64,
+    /// Mass actually weighed (g), once recorded.
+    pub actual_g: Option<f64>,
+    /// Supplier lot ("" when not recorded).
+    pub lot: String,
+}
+
+/// What was measured on a batch.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
+pub enum MeasurementKind {
+    /// Refractometer reading (°Bx).
+    Brix,
+    /// pH.
+    Ph,
+    /// Overrun (%).
+    OverrunPct,
+    /// Draw temperature at the freezer (°C).
+    DrawTempC,
+    /// Serving temperature (°C).
+    ServingTempC,
+    /// Measured initial freezing point (°C).
+    FreezingPointC,
+    /// Mass of the finished batch (g).
+    MassG,
+    /// Alcohol by volume at 20 °C (% vol).
+    AbvPct,
+    /// Titratable acidity (% as lactic acid).
+    TitratableAcidityPct,
+    /// Pasteurisation temperature (°C).
+    PasteuriseTempC,
+    /// Pasteurisation hold (s).
+    PasteuriseTimeS,
+}
+
+impl MeasurementKind {
+    /// Every kind, in the order they are listed to the user.
+    pub const ALL: [MeasurementKind; 11] = [
+        MeasurementKind::Brix,
+        MeasurementKind::Ph,
+        MeasurementKind::OverrunPct,
+        MeasurementKind::DrawTempC,
+        MeasurementKind::ServingTempC,
+        MeasurementKind::FreezingPointC,
+        MeasurementKind::MassG,
+        MeasurementKind::AbvPct,
+        MeasurementKind::TitratableAcidityPct,
+        MeasurementKind::PasteuriseTempC,
+        MeasurementKind::PasteuriseTimeS,
+    ];
+
+    /// The kebab-case name used on the command line and in JSON.
+    pub fn as_str(self) -> &'static str {
+        match self {
+            MeasurementKind::Brix => "brix",
+            MeasurementKind::Ph => "ph",
+            MeasurementKind::OverrunPct => "overrun-pct",
+            MeasurementKind::DrawTempC => "draw-temp-c",
+            MeasurementKind::ServingTempC => "serving-temp-c",
+            MeasurementKind::FreezingPointC => "freezing-point-c",
+            MeasurementKind::MassG => "mass-g",
+            MeasurementKind::AbvPct => "abv-pct",
+            MeasurementKind::TitratableAcidityPct => "titratable-acidity-pct",
+            MeasurementKind::PasteuriseTempC => "pasteurise-temp-c",
+            MeasurementKind::PasteuriseTimeS => "pasteurise-time-s",
+        }
+    }
+
+    /// The unit the value is in.
+    pub fn unit(self) -> &'static str {
+        match self {
+            MeasurementKind::Brix => "°Bx",
+            MeasurementKind::Ph => "pH",
+            MeasurementKind::OverrunPct | MeasurementKind::TitratableAcidityPct => "%",
+            MeasurementKind::DrawTempC
+            | MeasurementKind::ServingTempC
+            | MeasurementKind::FreezingPointC
+            | MeasurementKind::PasteuriseTempC => "°C",
+            MeasurementKind::MassG => "g",
+            MeasurementKind::AbvPct => "% vol",
+            MeasurementKind::PasteuriseTimeS => "s",
+        }
+    }
+
+    /// The key of the prediction this kind is compared with, if any.
+    pub fn prediction_key(self) -> Option<&'static str> {
+        match self {
+            MeasurementKind::FreezingPointC => Some("freezing_point_c"),
+            MeasurementKind::ServingTempC => Some("serving_temp_c"),
+            MeasurementKind::MassG => Some("mass_g"),
+            MeasurementKind::AbvPct => Some("abv_pct"),
+            _ => None,
+        }
+    }
+
+    /// Parses a kebab-case kind name.
+    pub fn parse(text: &str) -> Option<MeasurementKind> {
+        MeasurementKind::ALL
+            .into_iter()
+            .find(|k| k.as_str() == text)
+    }
+
+    /// The valid names, comma-separated, for error messages.
+    pub fn names() -> String {
+        MeasurementKind::ALL
+            .iter()
+            .map(|k| k.as_str())
+            .collect::<Vec<_>>()
+            .join(", ")
+    }
+}
+
+impl<'de> Deserialize<'de> for MeasurementKind {
+    fn deserialize<D: serde::Deserializer<'de>>(d: D) -> Result<Self, D::Error> {
+        crate::model::time::deserialize_text(d, "a measurement kind as a string", |text| {
+            MeasurementKind::parse(text).ok_or_else(|| {
+                format!(
+                    "measurement kind `{text}` is unknown; known kinds: {}",
+                    MeasurementKind::names()
+                )
+            })
+        })
+    }
+}
+
+/// One measurement taken on a batch. Read from its JSON object (the key `unit` is
+/// implied by the kind and not read).
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+pub struct Measurement {
+    /// What was measured.
+    pub kind: MeasurementKind,
+    /// The value, in `kind.unit()`.
+    pub value: f64,
+    /// When it was taken.
+    #[serde(deserialize_with = "crate::model::time::deserialize_time")]
+    pub taken_at: DateTime<Utc>,
+    /// Who took it.
+    pub by: String,
+}
+
+/// A note on a batch (deviations, corrective actions, sensory remarks).
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+pub struct Note {
+    /// The text.
+    pub text: String,
+    /// When it was written.
+    #[serde(deserialize_with = "crate::model::time::deserialize_time")]
+    pub written_at: DateTime<Utc>,
+    /// Who wrote it.
+    pub by: String,
+}
+
+/// One correction inside an amendment; `old` is what it replaced.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(tag = "field", rename_all = "kebab-case")]
+pub enum Change {
+    /// The operator's name.
+    Operator {
+        /// Value before.
+        old: String,
+        /// Value after.
+        new: String,
+    },
+    /// The weighed mass of one line (g).
+    ActualG {
+        /// Line number, 1-based.
+        line: usize,
+        /// The line's ingredient, for readers.
+        ingredient: String,
+        /// Value before (g).
+        old: Option<f64>,
+        /// Value after (g).
+        new: f64,
+    },
+    /// The supplier lot of one line.
+    Lot {
+        /// Line number, 1-based.
+        line: usize,
+        /// The line's ingredient, for readers.
+        ingredient: String,
+        /// Value before.
+        old: String,
+        /// Value after.
+        new: String,
+    },
+}
+
+/// A correction of a batch record: a new entry that references it.
+#[derive(Debug, Clone, PartialEq, Deserialize)]
+pub struct Amendment {
+    /// When it was made.
+    #[serde(deserialize_with = "crate::model::time::deserialize_time")]
+    pub amended_at: DateTime<Utc>,
+    /// Who made it.
+    pub by: String,
+    /// Why (required).
+    pub reason: String,
+    /// What it changes, in order.
+    pub changes: Vec<Change>,
+}
+
+/// A complete batch record, with every amendment applied to its fields.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Batch {
+    /// Human-friendly unique code, like `B-20261201-0003`.
+    pub code: String,
+    /// The recipe version it was made from.
+    pub recipe: RecipeVersion,
+    /// When it was made.
+    pub made_at: DateTime<Utc>,
+    /// Planned size (g).
+    pub size_g: f64,
+    /// Who made it (as amended).
+    pub operator: String,
+    /// Draft, final or amended.
+    pub status: Status,
+    /// When it was signed off, once final.
+    pub finalized_at: Option<DateTime<Utc>>,
+    /// Who signed it off, once final.
+    pub finalized_by: Option<String>,
+    /// The lines (as amended).
+    pub lines: Vec<BatchLine>,
+    /// Measurements, oldest first.
+    pub measurements: Vec<Measurement>,
+    /// Notes, oldest first.
+    pub notes: Vec<Note>,
+    /// The amendment trail, oldest first.
+    pub amendments: Vec<Amendment>,
+    /// The prediction taken when the batch was made (public analysis JSON).
+    pub prediction: serde_json::Value,
+}
+
+/// What `new_batch` needs: a recipe version's text plus everything about the batch.
+#[derive(Debug, Clone, PartialEq)]
+pub struct NewBatch {
+    /// The recipe's name.
+    pub recipe: String,
+    /// The recipe's TOML text; saved as a new version when it differs from the newest.
+    pub recipe_text: String,
+    /// When it was made.
+    pub made_at: DateTime<Utc>,
+    /// Planned size (g).
+    pub size_g: f64,
+    /// Who made it.
+    pub operator: String,
+    /// The lines, in recipe order.
+    pub lines: Vec<BatchLine>,
+    /// A first note, if any.
+    pub note: Option<String>,
+    /// The prediction (public analysis JSON).
+    pub prediction: serde_json::Value,
+}
+
+/// Where a page of the batch list ends, to fetch the next one (keyset pagination).
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct BatchCursor {
+    pub(crate) made_at: String,
+    pub(crate) id: i64,
+}
+
+/// One row of the batch list.
+#[derive(Debug, Clone, PartialEq)]
+pub struct BatchSummary {
+    /// Batch code.
+    pub code: String,
+    /// Recipe name.
+    pub recipe: String,
+    /// Recipe version number.
+    pub recipe_version: u32,
+    /// When it was made.
+    pub made_at: DateTime<Utc>,
+    /// Planned size (g).
+    pub size_g: f64,
+    /// Who made it (as amended).
+    pub operator: String,
+    /// Draft, final or amended.
+    pub status: Status,
+    /// Pass to [`BatchFilter::after`] to get the rows after this one.
+    pub cursor: BatchCursor,
+}
+
+/// Which batches to list. Results are newest first.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct BatchFilter {
+    /// Only this recipe (exact name).
+    pub recipe: Option<String>,
+    /// Made at or after this time.
+    pub since: Option<DateTime<Utc>>,
+    /// Made before this time.
+    pub until: Option<DateTime<Utc>>,
+    /// Full-text search over notes, lots and amendment reasons: whole words, or
+    /// prefixes when a word ends in `*`.
+    pub search: Option<String>,
+    /// At most this many rows (0 means no limit).
+    pub limit: usize,
+    /// Continue after this row of an earlier page.
+    pub after: Option<BatchCursor>,
+}

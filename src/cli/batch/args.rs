@@ -1,0 +1,147 @@
+//! The flags of `gelu batch` as the user types them (clap); `mod.rs` resolves
+//! them into typed requests.
+
+use std::path::PathBuf;
+
+/// Arguments of `gelu batch`.
+#[derive(Debug, clap::Args)]
+pub struct BatchArgs {
+    /// What to do.
+    #[command(subcommand)]
+    pub command: BatchCommand,
+}
+
+/// Filters shared by `list` and `export`.
+#[derive(Debug, clap::Args)]
+pub struct FilterArgs {
+    /// Only batches of this recipe (its exact name).
+    #[arg(long, value_name = "NAME")]
+    pub recipe: Option<String>,
+    /// Made on or after DATE (YYYY-MM-DD, UTC, or an RFC 3339 time).
+    #[arg(long, value_name = "DATE")]
+    pub since: Option<String>,
+    /// Made on or before DATE (YYYY-MM-DD includes that whole day).
+    #[arg(long, value_name = "DATE")]
+    pub until: Option<String>,
+    /// Words to find in notes, supplier lots and amendment reasons (`gloss*` for a prefix).
+    #[arg(long, value_name = "TEXT")]
+    pub search: Option<String>,
+}
+
+/// The `gelu batch` subcommands.
+#[derive(Debug, clap::Subcommand)]
+pub enum BatchCommand {
+    /// Record a new batch of a recipe scaled to a size; prints its code.
+    New {
+        /// The recipe file (TOML).
+        recipe: PathBuf,
+        /// Batch size: g, kg, or for liqueurs mL or L (5kg, 800g, 1.5L).
+        #[arg(long, value_name = "SIZE")]
+        size: String,
+        /// Who makes it (default: the login name).
+        #[arg(long, value_name = "NAME")]
+        by: Option<String>,
+        /// Supplier lot of an ingredient (or line number), repeatable: --lot sucrose=S-2611.
+        #[arg(long = "lot", value_name = "INGREDIENT=LOT")]
+        lots: Vec<String>,
+        /// A first note.
+        #[arg(long, value_name = "TEXT")]
+        note: Option<String>,
+        /// Print the whole batch as JSON instead of its code.
+        #[arg(long)]
+        json: bool,
+    },
+    /// List batches, newest first.
+    List {
+        #[command(flatten)]
+        filter: FilterArgs,
+        /// At most N batches (0: all).
+        #[arg(long, value_name = "N", default_value_t = 50)]
+        limit: usize,
+        /// One JSON object per batch per line.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Show a whole record, predicted against measured.
+    Show {
+        /// Batch code.
+        code: String,
+        /// As JSON.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Record measurements: brix=31.5 ph=3.4 draw-temp-c=-6.5 ...
+    Measure {
+        /// Batch code.
+        code: String,
+        /// KIND=VALUE readings.
+        #[arg(required = true, value_name = "KIND=VALUE")]
+        readings: Vec<String>,
+        /// Who measured (default: the login name).
+        #[arg(long, value_name = "NAME")]
+        by: Option<String>,
+    },
+    /// Add a note (deviation, corrective action, tasting).
+    Note {
+        /// Batch code.
+        code: String,
+        /// The note.
+        text: String,
+        /// Who writes it (default: the login name).
+        #[arg(long, value_name = "NAME")]
+        by: Option<String>,
+    },
+    /// Sign a batch off: from then on it is corrected only by amendments.
+    Finalize {
+        /// Batch code.
+        code: String,
+        /// Who signs off (default: the login name).
+        #[arg(long, value_name = "NAME")]
+        by: Option<String>,
+    },
+    /// Correct a batch by a new entry on its amendment trail.
+    Amend {
+        /// Batch code.
+        code: String,
+        /// Why (required; kept with the record).
+        #[arg(long, value_name = "TEXT")]
+        reason: String,
+        /// Who amends (default: the login name).
+        #[arg(long, value_name = "NAME")]
+        by: Option<String>,
+        /// The corrected operator's name.
+        #[arg(long, value_name = "NAME")]
+        operator: Option<String>,
+        /// The weighed mass of a line in g, repeatable: --actual sucrose=812.
+        #[arg(long = "actual", value_name = "INGREDIENT=G")]
+        actuals: Vec<String>,
+        /// The supplier lot of a line, repeatable: --lot whole-milk=M-2612-04.
+        #[arg(long = "lot", value_name = "INGREDIENT=LOT")]
+        lots: Vec<String>,
+    },
+    /// Write batches as JSON Lines (lossless) or CSV to standard output.
+    Export {
+        /// jsonl or csv.
+        #[arg(long, value_name = "FORMAT", default_value = "jsonl")]
+        format: ExportFormat,
+        #[command(flatten)]
+        filter: FilterArgs,
+        /// At most N batches (0: all).
+        #[arg(long, value_name = "N", default_value_t = 0)]
+        limit: usize,
+    },
+    /// Read batches from a JSON Lines export; codes already present are skipped.
+    Import {
+        /// The .jsonl file.
+        file: PathBuf,
+    },
+}
+
+/// Export formats.
+#[derive(Debug, Clone, Copy, clap::ValueEnum)]
+pub enum ExportFormat {
+    /// One JSON object per batch per line; import reads it back exactly.
+    Jsonl,
+    /// One row per batch, for spreadsheets.
+    Csv,
+}

@@ -1,0 +1,322 @@
+//! Reading recipe files: TOML -> [`Recipe`], every id checked against the
+//! catalog and the file's own items. Every error names the file, the line and
+//! column, and what would be valid; nothing here panics on any input.
+
+use std::ops::Range;
+use std::path::Path;
+
+use serde::Deserialize;
+use toml::Spanned;
+
+use crate::catalog::{Catalog, CatalogError, IngredientTable, suggest_text};
+use crate::model::{Amount, Line, Recipe, Solute, SoluteKind, Style};
+use crate::thermo::binary::WaterModel;
+
+use super::RecipeFileError;
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct RecipeDoc {
+    name: Spanned<String>,
+    #[serde(default)]
+    style: Option<Spanned<String>>,
+    #[serde(default)]
+    notes: Option<String>,
+    #[serde(default)]
+    serving_target: Option<Spanned<f64>>,
+    #[serde(default)]
+    solute: Vec<Spanned<SoluteDoc>>,
+    #[serde(default)]
+    ingredient: Vec<Spanned<IngredientTable>>,
+    #[serde(default)]
+    line: Vec<Spanned<LineDoc>>,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct SoluteDoc {
+    id: Spanned<String>,
+    name: String,
+    molar_mass_g_mol: Spanned<f64>,
+    #[serde(default = "one")]
+    dissociation: Spanned<f64>,
+    #[serde(default)]
+    norrish_k: Option<Spanned<f64>>,
+    #[serde(default)]
+    sweetness: Option<f64>,
+    #[serde(default)]
+    source: Option<String>,
+}
+
+fn one() -> Spanned<f64> {
+    Spanned::new(0..0, 1.0)
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct LineDoc {
+    ingredient: Spanned<String>,
+    #[serde(default)]
+    g: Option<Spanned<f64>>,
+    #[serde(default)]
+    kg: Option<Spanned<f64>>,
+    #[serde(default)]
+    ml: Option<Spanned<f64>>,
+    #[serde(default)]
+    l: Option<Spanned<f64>>,
+}
+
+/// 1-based line and column of byte offset `at` in `text`.
+fn line_column(text: &str, at: usize) -> (usize, usize) {
+    let at = at.min(text.len());
+    let before = &text[..text.floor_char_boundary(at)];
+    let line = before.matches('\n').count() + 1;
+    let column = before.rsplit('\n').next().map_or(0, |l| l.chars().count()) + 1;
+    (line, column)
+}
+
+struct Ctx<'a> {
+    path: &'a Path,
+    text: &'a str,
+}
+
+impl Ctx<'_> {
+    fn err(&self, span: Range<usize>, message: impl Into<String>) -> RecipeFileError {
+        let (line, column) = if span.start == 0 && span.end == 0 {
+            (1, 1)
+        } else {
+            line_column(self.text, span.start)
+        };
+        RecipeFileError {
+            path: self.path.to_path_buf(),
+            line,
+            column,
+            message: message.into(),
+        }
+    }
+}
+
+/// Reads and parses a recipe file. Returns the recipe and the file's text.
+pub fn read_recipe(path: &Path) -> Result<(Recipe, String), RecipeFileError> {
+    let text = std::fs::read_to_string(path).map_err(|e| RecipeFileError {
+        path: path.to_path_buf(),
+        line: 0,
+        column: 0,
+        message: format!("cannot read the file: {e}"),
+    })?;
+    let recipe = parse_recipe(path, &text)?;
+    Ok((recipe, text))
+}
+
+/// Parses recipe TOML `text` (from `path`, for messages), checking every id
+/// against the built-in catalog and the file's own solutes and ingredients.
+pub fn parse_recipe(path: &Path, text: &str) -> Result<Recipe, RecipeFileError> {
+    parse_recipe_with(path, text, Catalog::builtin())
+}
+
+/// As [`parse_recipe`], against a given catalog (built-in plus the user's own).
+pub fn parse_recipe_with(
+    path: &Path,
+    text: &str,
+    catalog: &Catalog,
+) -> Result<Recipe, RecipeFileError> {
+    let ctx = Ctx { path, text };
+    let doc: RecipeDoc = toml::from_str(text).map_err(|e| {
+        let span = e.span().unwrap_or(0..0);
+        let message = e.message().trim().replace('\n', " ");
+        ctx.err(span, message)
+    })?;
+    let name = doc.name.get_ref().trim().to_string();
+    if name.is_empty() {
+        return Err(ctx.err(doc.name.span(), "the recipe `name` must not be empty"));
+    }
+    let style = match &doc.style {
+        None => Style::default(),
+        Some(s) => Style::parse(s.get_ref()).ok_or_else(|| {
+            let all: Vec<&str> = Style::ALL.iter().map(|s| s.as_str()).collect();
+            ctx.err(
+                s.span(),
+                format!(
+                    "unknown style `{}`; valid styles: {}",
+                    s.get_ref(),
+                    all.join(", ")
+                ),
+            )
+        })?,
+    };
+    let serving_target = match &doc.serving_target {
+        None => None,
+        Some(t) => {
+            let v = *t.get_ref();
+            if !(v > 0.0 && v < 1.0) {
+                return Err(ctx.err(t.span(), format!("serving_target is the share of water frozen at serving, between 0 and 1 (like 0.70), not {v}")));
+            }
+            Some(v)
+        }
+    };
+    let solutes = doc
+        .solute
+        .iter()
+        .map(|s| solute_from_doc(&ctx, s.get_ref()))
+        .collect::<Result<Vec<_>, _>>()?;
+    let ingredients = doc
+        .ingredient
+        .iter()
+        .map(|i| {
+            i.get_ref()
+                .to_ingredient("the recipe file's own ingredient")
+                .map_err(|(span, message)| ctx.err(span, message))
+        })
+        .collect::<Result<Vec<_>, _>>()?;
+    // Validate the user's own items, pointing at the one at fault. (Without any, the
+    // catalog is used as it is: no copy per file.)
+    let extended;
+    let catalog = if solutes.is_empty() && ingredients.is_empty() {
+        catalog
+    } else {
+        extended = catalog
+            .with_additions(&solutes, &ingredients)
+            .map_err(|e| {
+                let id = catalog_error_id(&e);
+                let span = doc
+                    .solute
+                    .iter()
+                    .map(|s| &s.get_ref().id)
+                    .chain(doc.ingredient.iter().map(|i| &i.get_ref().id))
+                    .find(|sid| sid.get_ref() == id)
+                    .map_or(0..0, |sid| sid.span());
+                ctx.err(span, e.to_string())
+            })?;
+        &extended
+    };
+    let mut lines = Vec::with_capacity(doc.line.len());
+    for l in &doc.line {
+        lines.push(line_from_doc(&ctx, l, catalog)?);
+    }
+    let total: f64 = lines
+        .iter()
+        .map(|l: &Line| {
+            l.amount.grams(
+                catalog
+                    .ingredient(&l.ingredient)
+                    .map_or(1.0, |i| i.density_g_ml),
+            )
+        })
+        .sum();
+    if !(total > 0.0) {
+        let span = doc.line.first().map_or(doc.name.span(), |l| l.span());
+        return Err(ctx.err(span, "the recipe's lines add up to nothing: give at least one line an amount above zero (`[[line]]` with `g = ...`)"));
+    }
+    Ok(Recipe {
+        name,
+        style,
+        notes: doc.notes.unwrap_or_default(),
+        serving_frozen_fraction: serving_target,
+        solutes,
+        ingredients,
+        lines,
+    })
+}
+
+fn catalog_error_id(e: &CatalogError) -> &str {
+    match e {
+        CatalogError::DuplicateId(id) | CatalogError::BadId(id) => id,
+        CatalogError::NotPositive { id, .. }
+        | CatalogError::BadPart { id, .. }
+        | CatalogError::NotHundred { id, .. } => id,
+        CatalogError::UnknownSolute { ingredient, .. } => ingredient,
+    }
+}
+
+fn finite_positive(ctx: &Ctx, v: &Spanned<f64>, what: &str) -> Result<f64, RecipeFileError> {
+    let x = *v.get_ref();
+    if x > 0.0 && x.is_finite() {
+        Ok(x)
+    } else {
+        Err(ctx.err(
+            v.span(),
+            format!("{what} must be a positive number, not {x}"),
+        ))
+    }
+}
+
+fn solute_from_doc(ctx: &Ctx, s: &SoluteDoc) -> Result<Solute, RecipeFileError> {
+    let molar_mass = finite_positive(ctx, &s.molar_mass_g_mol, "molar_mass_g_mol (g/mol)")?;
+    let dissociation = finite_positive(
+        ctx,
+        &s.dissociation,
+        "dissociation (the van 't Hoff factor i, 1 for sugars, 2 for table salt)",
+    )?;
+    let norrish_k = match &s.norrish_k {
+        None => 0.0,
+        Some(k) => {
+            let v = *k.get_ref();
+            if !(v >= 0.0 && v.is_finite()) {
+                return Err(ctx.err(k.span(), format!("norrish_k must be zero or more, not {v}")));
+            }
+            v
+        }
+    };
+    Ok(Solute {
+        id: s.id.get_ref().clone(),
+        name: s.name.clone(),
+        kind: SoluteKind::Other,
+        molar_mass_g_mol: molar_mass,
+        dissociation,
+        model: WaterModel::Ideal { norrish_k },
+        sweetness: s.sweetness,
+        solubility_g_per_100g_water_0c: None,
+        source: s
+            .source
+            .clone()
+            .unwrap_or_else(|| "the recipe file's own solute".into()),
+    })
+}
+
+/// Turns a number in a line's unit into an [`Amount`].
+type MakeAmount = fn(f64) -> Amount;
+
+fn line_from_doc(
+    ctx: &Ctx,
+    l: &Spanned<LineDoc>,
+    catalog: &Catalog,
+) -> Result<Line, RecipeFileError> {
+    let doc = l.get_ref();
+    let id = doc.ingredient.get_ref();
+    if catalog.ingredient(id).is_none() {
+        return Err(ctx.err(
+            doc.ingredient.span(),
+            format!(
+                "unknown ingredient `{id}`{}",
+                suggest_text(&catalog.nearest_ingredients(id))
+            ),
+        ));
+    }
+    let given: Vec<(&Spanned<f64>, MakeAmount)> = [
+        (doc.g.as_ref(), Amount::Grams as MakeAmount),
+        (doc.kg.as_ref(), |v| Amount::Grams(v * 1000.0)),
+        (doc.ml.as_ref(), Amount::Millilitres),
+        (doc.l.as_ref(), |v| Amount::Millilitres(v * 1000.0)),
+    ]
+    .into_iter()
+    .filter_map(|(v, f)| v.map(|v| (v, f)))
+    .collect();
+    let [(value, make)] = given.as_slice() else {
+        let span = given.get(1).map_or(l.span(), |g| g.0.span());
+        return Err(ctx.err(
+            span,
+            format!("the line for `{id}` needs exactly one amount: `g`, `kg`, `ml` or `l`"),
+        ));
+    };
+    let v = *value.get_ref();
+    if !(v >= 0.0 && v.is_finite()) {
+        return Err(ctx.err(
+            value.span(),
+            format!("the amount of `{id}` must be a finite number, zero or more, not {v}"),
+        ));
+    }
+    Ok(Line {
+        ingredient: id.clone(),
+        amount: make(v),
+    })
+}

@@ -1,0 +1,94 @@
+//! Writing a recipe as a fresh TOML file in the format [`super::parse_recipe`]
+//! reads (for a new file, or when a file's own layout cannot be kept).
+
+use crate::model::{Amount, Recipe};
+use crate::thermo::binary::WaterModel;
+
+/// Writes a recipe as TOML in the format [`parse_recipe`] reads. Amounts by
+/// mass are written in g, by volume in mL.
+pub fn recipe_to_toml(recipe: &Recipe) -> String {
+    use std::fmt::Write as _;
+    let q = |s: &str| toml::Value::String(s.to_string()).to_string();
+    let mut out = String::new();
+    let _ = writeln!(out, "name = {}", q(&recipe.name));
+    let _ = writeln!(out, "style = {}", q(recipe.style.as_str()));
+    if !recipe.notes.is_empty() {
+        let _ = writeln!(out, "notes = {}", q(&recipe.notes));
+    }
+    if let Some(t) = recipe.serving_frozen_fraction {
+        let _ = writeln!(out, "serving_target = {t}");
+    }
+    for s in &recipe.solutes {
+        let _ = write!(
+            out,
+            "\n[[solute]]\nid = {}\nname = {}\nmolar_mass_g_mol = {:?}\ndissociation = {:?}\n",
+            q(&s.id),
+            q(&s.name),
+            s.molar_mass_g_mol,
+            s.dissociation
+        );
+        if let WaterModel::Ideal { norrish_k } = s.model
+            && norrish_k > 0.0
+        {
+            let _ = writeln!(out, "norrish_k = {norrish_k:?}");
+        }
+        if let Some(sw) = s.sweetness {
+            let _ = writeln!(out, "sweetness = {sw:?}");
+        }
+    }
+    for i in &recipe.ingredients {
+        let _ = write!(
+            out,
+            "\n[[ingredient]]\nid = {}\nname = {}\ncategory = {}\n",
+            q(&i.id),
+            q(&i.name),
+            q(i.category.as_str())
+        );
+        for (k, v) in [
+            ("water_pct", i.water_pct),
+            ("fat_pct", i.fat_pct),
+            ("protein_pct", i.protein_pct),
+            ("other_solids_pct", i.other_solids_pct),
+        ] {
+            if v != 0.0 {
+                let _ = writeln!(out, "{k} = {v:?}");
+            }
+        }
+        if !i.solutes_pct.is_empty() {
+            let parts: Vec<String> = i
+                .solutes_pct
+                .iter()
+                .map(|(k, v)| format!("{} = {v:?}", toml_key(k)))
+                .collect();
+            let _ = writeln!(out, "solutes_pct = {{ {} }}", parts.join(", "));
+        }
+        let _ = writeln!(out, "density_g_ml = {:?}", i.density_g_ml);
+        if !i.allergens.is_empty() {
+            let a: Vec<String> = i.allergens.iter().map(|a| q(a)).collect();
+            let _ = writeln!(out, "allergens = [{}]", a.join(", "));
+        }
+    }
+    for l in &recipe.lines {
+        let (key, v) = match l.amount {
+            Amount::Grams(g) => ("g", g),
+            Amount::Millilitres(ml) => ("ml", ml),
+        };
+        let _ = write!(
+            out,
+            "\n[[line]]\ningredient = {}\n{key} = {v:?}\n",
+            q(&l.ingredient)
+        );
+    }
+    out
+}
+
+fn toml_key(k: &str) -> String {
+    if k.bytes()
+        .all(|b| b.is_ascii_alphanumeric() || b == b'-' || b == b'_')
+        && !k.is_empty()
+    {
+        k.to_string()
+    } else {
+        toml::Value::String(k.to_string()).to_string()
+    }
+}

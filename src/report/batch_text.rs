@@ -1,0 +1,126 @@
+//! A batch record as plain text for people: the whole record with its readings set
+//! against the prediction, and one line per batch for a list. (JSON and CSV forms
+//! are the batch domain's, in [`crate::batch`].)
+
+use std::fmt::Write as _;
+
+use chrono::{DateTime, Utc};
+
+use crate::batch::compare::{comparisons, readings};
+use crate::batch::{Batch, BatchSummary};
+
+fn grams(g: f64) -> String {
+    format!("{g:.1}")
+}
+
+/// A time as the text forms show it: `2026-12-01 23:10 UTC`.
+pub fn minute_text(t: &DateTime<Utc>) -> String {
+    t.format("%Y-%m-%d %H:%M UTC").to_string()
+}
+
+/// One row of the batch list.
+pub fn summary_line(r: &BatchSummary) -> String {
+    format!(
+        "{:<16} {}  {:<8} {:>10} g  {} v{}  ({})",
+        r.code,
+        minute_text(&r.made_at),
+        r.status.as_str(),
+        grams(r.size_g),
+        r.recipe,
+        r.recipe_version,
+        r.operator
+    )
+}
+
+/// The whole record as text.
+pub fn batch_text(b: &Batch) -> String {
+    let mut out = String::new();
+    let mut line = |s: String| {
+        let _ = writeln!(out, "{s}");
+    };
+    line(format!("{}  {}", b.code, b.status.as_str().to_uppercase()));
+    line(format!(
+        "recipe   {} (version {}, {})",
+        b.recipe.recipe, b.recipe.version, b.recipe.content_hash
+    ));
+    line(format!(
+        "made     {} by {}",
+        minute_text(&b.made_at),
+        b.operator
+    ));
+    line(format!("size     {} g", grams(b.size_g)));
+    if let (Some(at), Some(by)) = (&b.finalized_at, &b.finalized_by) {
+        line(format!("final    {} by {}", minute_text(at), by));
+    }
+    line(String::new());
+    line(format!(
+        "{:<4} {:<24} {:>10} {:>10}  lot",
+        "line", "ingredient", "planned g", "actual g"
+    ));
+    for (i, l) in b.lines.iter().enumerate() {
+        line(format!(
+            "{:<4} {:<24} {:>10} {:>10}  {}",
+            i + 1,
+            l.ingredient,
+            grams(l.planned_g),
+            l.actual_g.map(grams).unwrap_or_else(|| "-".into()),
+            if l.lot.is_empty() { "-" } else { &l.lot }
+        ));
+    }
+    line(String::new());
+    line("measured against predicted".into());
+    for c in comparisons(b) {
+        if let (Some(p), None) = (c.predicted, c.measured) {
+            line(format!(
+                "  {:<22} {:>10} {:<6} predicted {p:.2}",
+                c.kind.as_str(),
+                "-",
+                c.kind.unit()
+            ));
+        }
+    }
+    for r in readings(b) {
+        let m = r.measurement;
+        let against = match (r.predicted, r.difference()) {
+            (Some(p), Some(d)) => format!("predicted {p:.2}, difference {d:+.2}"),
+            _ => String::new(),
+        };
+        line(format!(
+            "  {:<22} {:>10} {:<6} {against}  ({} by {})",
+            m.kind.as_str(),
+            format!("{:.2}", m.value),
+            m.kind.unit(),
+            minute_text(&m.taken_at),
+            m.by
+        ));
+    }
+    if !b.notes.is_empty() {
+        line(String::new());
+        line("notes".into());
+        for n in &b.notes {
+            line(format!(
+                "  {} {}: {}",
+                minute_text(&n.written_at),
+                n.by,
+                n.text
+            ));
+        }
+    }
+    if !b.amendments.is_empty() {
+        line(String::new());
+        line("amendments".into());
+        for a in &b.amendments {
+            line(format!(
+                "  {} {}: {}",
+                minute_text(&a.amended_at),
+                a.by,
+                a.reason
+            ));
+            for c in &a.changes {
+                let change = serde_json::to_string(c).unwrap_or_default();
+                line(format!("    {change}"));
+            }
+        }
+    }
+    out
+}

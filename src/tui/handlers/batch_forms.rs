@@ -1,0 +1,248 @@
+//! The batch log's forms: a new batch, a measurement, an amendment; opening
+//! them, checking them field by field, and what submitting one asks for.
+
+use super::super::action::Effect;
+use super::super::state::{
+    BatchRequest, Field, Form, FormPurpose, Overlay, RecipeSource, Screen, State,
+};
+use crate::batch::{Edit, LineRef, MeasurementKind};
+use crate::model::units::{G_PER_OZ, parse_mass, parse_number, parse_temp, trim_number};
+
+/// Opens the form that records a batch of the recipe in the editor.
+pub fn open_batch_form(state: &mut State) {
+    let Ok(analysis) = &state.recipe.analysis else {
+        state.warn("The recipe in the editor has nothing to make yet.");
+        return;
+    };
+    let unit = state.settings.mass_unit;
+    let size = match unit {
+        crate::model::MassUnit::Grams => trim_number(analysis.mass_g.round()),
+        crate::model::MassUnit::Imperial => {
+            format!("{} oz", trim_number(analysis.mass_g / G_PER_OZ))
+        }
+    };
+    let mut fields = vec![
+        Field::new("Batch size", size),
+        Field::new("Operator", state.settings.operator.clone()),
+    ];
+    for line in &state.recipe.recipe.lines {
+        fields.push(Field::new(
+            format!("Lot of {}", state.display_name(&line.ingredient)),
+            String::new(),
+        ));
+    }
+    let mut form = Form {
+        purpose: FormPurpose::Batch,
+        title: format!("New batch of {}", state.recipe.recipe.name),
+        fields,
+        focus: 0,
+        summary: None,
+    };
+    check_form(state, &mut form);
+    state.screen = Screen::Batches;
+    state.overlay = Some(Overlay::Form(form));
+}
+
+/// The measurement kinds, as typed in the form.
+pub fn measurement_names() -> String {
+    MeasurementKind::names()
+}
+
+pub fn open_measurement_form(state: &mut State, code: String) {
+    let mut form = Form {
+        purpose: FormPurpose::Measurement(code),
+        title: "Add a measurement".into(),
+        fields: vec![
+            Field::new("What", "brix"),
+            Field::new("Value", String::new()),
+        ],
+        focus: 1,
+        summary: Some(format!("What: one of {}", measurement_names())),
+    };
+    check_form(state, &mut form);
+    state.overlay = Some(Overlay::Form(form));
+}
+
+const AMEND_REASON: usize = 0;
+const AMEND_LINE: usize = 1;
+const AMEND_LOT: usize = 2;
+const AMEND_MASS: usize = 3;
+const AMEND_OPERATOR: usize = 4;
+
+pub fn open_amend_form(state: &mut State, code: String) {
+    let mut form = Form {
+        purpose: FormPurpose::Amend(code),
+        title: "Amend a final batch (a new entry; the record stays)".into(),
+        fields: vec![
+            Field::new("Reason", String::new()),
+            Field::new("Line (ingredient or number)", String::new()),
+            Field::new("Correct lot", String::new()),
+            Field::new("Correct weighed mass", String::new()),
+            Field::new("Correct operator", String::new()),
+        ],
+        focus: 0,
+        summary: Some("Fill in the reason and at least one correction.".into()),
+    };
+    check_form(state, &mut form);
+    state.overlay = Some(Overlay::Form(form));
+}
+
+fn value(form: &Form, at: usize) -> &str {
+    form.fields.get(at).map_or("", |f| f.input.value().trim())
+}
+
+fn is_temperature(kind: MeasurementKind) -> bool {
+    kind.unit() == "°C"
+}
+
+/// The measurement a form describes; temperatures are typed in the display unit.
+fn measurement(state: &State, form: &Form) -> Result<(MeasurementKind, f64), String> {
+    let kind = MeasurementKind::parse(value(form, 0))
+        .ok_or_else(|| format!("one of: {}", measurement_names()))?;
+    let text = value(form, 1);
+    let v = if is_temperature(kind) {
+        parse_temp(text, state.settings.temp_unit)?
+    } else {
+        let x = parse_number(text)?;
+        if x < 0.0 {
+            return Err("must be zero or more".into());
+        }
+        x
+    };
+    Ok((kind, v))
+}
+
+fn amend_edits(state: &State, form: &Form) -> Result<Vec<Edit>, String> {
+    let line = value(form, AMEND_LINE);
+    let mut edits = Vec::new();
+    let lot = value(form, AMEND_LOT);
+    let mass = value(form, AMEND_MASS);
+    if (!lot.is_empty() || !mass.is_empty()) && line.is_empty() {
+        return Err("name the line the lot or mass belongs to".into());
+    }
+    if !lot.is_empty() {
+        edits.push(Edit::Lot {
+            line: LineRef::parse(line),
+            lot: lot.to_string(),
+        });
+    }
+    if !mass.is_empty() {
+        edits.push(Edit::ActualG {
+            line: LineRef::parse(line),
+            grams: parse_mass(mass, Some(state.settings.mass_unit))?,
+        });
+    }
+    let operator = value(form, AMEND_OPERATOR);
+    if !operator.is_empty() {
+        edits.push(Edit::Operator(operator.to_string()));
+    }
+    if edits.is_empty() {
+        return Err("give at least one correction: a lot, a mass or the operator".into());
+    }
+    Ok(edits)
+}
+
+/// Checks a batch, measurement or amendment form field by field.
+pub fn check_form(state: &State, form: &mut Form) {
+    let mut problems: Vec<(usize, Option<String>)> = Vec::new();
+    match &form.purpose {
+        FormPurpose::Batch => {
+            problems.push((
+                0,
+                parse_mass(value(form, 0), Some(state.settings.mass_unit)).err(),
+            ));
+            problems.push((
+                1,
+                value(form, 1)
+                    .is_empty()
+                    .then(|| "who makes the batch (initials will do)".to_string()),
+            ));
+        }
+        FormPurpose::Measurement(_) => {
+            let kind_ok = MeasurementKind::parse(value(form, 0)).is_some();
+            let problem = measurement(state, form).err();
+            problems.push((0, (!kind_ok).then(|| problem.clone().unwrap_or_default())));
+            problems.push((1, if kind_ok { problem } else { None }));
+        }
+        FormPurpose::Amend(_) => {
+            problems.push((
+                AMEND_REASON,
+                value(form, AMEND_REASON)
+                    .is_empty()
+                    .then(|| "say why the record is corrected".to_string()),
+            ));
+            let mass = value(form, AMEND_MASS);
+            problems.push((
+                AMEND_MASS,
+                (!mass.is_empty())
+                    .then(|| parse_mass(mass, Some(state.settings.mass_unit)).err())
+                    .flatten(),
+            ));
+        }
+        _ => {}
+    }
+    for (at, problem) in problems {
+        if let Some(f) = form.fields.get_mut(at) {
+            f.problem = problem;
+        }
+    }
+}
+
+/// Who is signing: the operator from the settings.
+pub fn signer(state: &State) -> Result<String, String> {
+    let name = state.settings.operator.trim();
+    if name.is_empty() {
+        Err("set the operator's name in the settings (4) first".into())
+    } else {
+        Ok(name.to_string())
+    }
+}
+
+/// Turns a submitted batch, measurement or amendment form into its effect.
+pub fn submit(state: &mut State, form: &Form) -> Result<Vec<Effect>, String> {
+    if let Some(f) = form.fields.iter().find(|f| f.problem.is_some()) {
+        return Err(format!(
+            "{}: {}",
+            f.label,
+            f.problem.clone().unwrap_or_default()
+        ));
+    }
+    match &form.purpose {
+        FormPurpose::Batch => {
+            let size_g = parse_mass(value(form, 0), Some(state.settings.mass_unit))?;
+            let lots = (2..form.fields.len())
+                .map(|at| value(form, at).to_string())
+                .collect();
+            let recipe_text = match &state.recipe.source {
+                _ if state.recipe.is_dirty() => None,
+                RecipeSource::Database { text, .. } => Some(text.clone()),
+                RecipeSource::File { original, .. } => original.clone(),
+                RecipeSource::New => None,
+            };
+            Ok(vec![Effect::StartBatch(BatchRequest {
+                recipe: state.recipe.recipe.clone(),
+                recipe_text,
+                size_g,
+                operator: value(form, 1).to_string(),
+                lots,
+                note: String::new(),
+            })])
+        }
+        FormPurpose::Measurement(code) => {
+            let (kind, value) = measurement(state, form)?;
+            Ok(vec![Effect::AddMeasurement {
+                code: code.clone(),
+                kind,
+                value,
+                by: signer(state)?,
+            }])
+        }
+        FormPurpose::Amend(code) => Ok(vec![Effect::Amend {
+            code: code.clone(),
+            by: signer(state)?,
+            reason: value(form, AMEND_REASON).to_string(),
+            edits: amend_edits(state, form)?,
+        }]),
+        _ => Ok(Vec::new()),
+    }
+}

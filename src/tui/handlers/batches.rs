@@ -1,0 +1,177 @@
+//! The batch log's half of `update`: paging through the history newest first
+//! (keyset pages, fetched as the cursor nears the end of what is loaded),
+//! filters, one batch's detail, notes and sign-off. The forms that record a
+//! batch, a measurement or an amendment are in `batch_forms`.
+
+use super::super::action::{Command, Effect};
+use super::super::state::{BatchPage, Overlay, PromptPurpose, Question, State};
+use super::batch_forms::{open_amend_form, open_batch_form, open_measurement_form, signer};
+use super::common::{move_cursor, prompt};
+use crate::model::time::{DayEnd, parse_date_bound};
+
+/// Rows from the end of what is loaded at which the next page is fetched.
+pub const PREFETCH_ROWS: usize = 60;
+
+/// Handles a command on the batch log (list or detail).
+pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
+    if let Some(detail) = &state.batches.detail {
+        let code = detail.row.code.clone();
+        let finalized = detail.row.finalized;
+        match command {
+            Command::Cancel => state.batches.detail = None,
+            Command::AddMeasurement => open_measurement_form(state, code),
+            Command::AddNote => prompt(
+                state,
+                PromptPurpose::BatchNote(code),
+                "Note for this batch (deviation, correction, tasting)".into(),
+                String::new(),
+            ),
+            Command::Finalize if finalized => state.tell("This batch is already final."),
+            Command::Finalize => {
+                state.overlay = Some(Overlay::Confirm(Question::Finalize(code)));
+            }
+            Command::Amend if !finalized => {
+                state.tell("A draft is not amended: add a note (n), or finalise it first (F).")
+            }
+            Command::Amend => open_amend_form(state, code),
+            _ => {}
+        }
+        return Vec::new();
+    }
+    let len = state.batches.rows.len();
+    match command {
+        c if c.moves_cursor() => {
+            state.batches.cursor = move_cursor(state.batches.cursor, len, command);
+            return prefetch(state);
+        }
+        Command::OpenDetail => {
+            if let Some(row) = state.batches.rows.get(state.batches.cursor) {
+                return vec![Effect::LoadBatchDetail(row.code.clone())];
+            }
+        }
+        Command::Search => {
+            let text = state.batches.query.text.clone();
+            prompt(
+                state,
+                PromptPurpose::BatchSearch,
+                "Search batches: words in notes, lots and amendment reasons".into(),
+                text,
+            );
+        }
+        Command::ClearFilter => {
+            state.batches.query.text.clear();
+            state.batches.query.since = None;
+            state.batches.query.recipe = None;
+            return reload(state);
+        }
+        Command::FilterRecipe => {
+            if state.batches.query.recipe.is_some() {
+                state.batches.query.recipe = None;
+            } else {
+                state.batches.query.recipe = Some(state.recipe.recipe.name.clone());
+            }
+            return reload(state);
+        }
+        Command::FilterDate => {
+            let text = state.batches.query.since.clone().unwrap_or_default();
+            prompt(
+                state,
+                PromptPurpose::BatchSince,
+                "Show batches made on or after (YYYY-MM-DD, empty: all)".into(),
+                text,
+            );
+        }
+        Command::StartBatch => open_batch_form(state),
+        _ => {}
+    }
+    Vec::new()
+}
+
+/// Starts the log again from the newest batch for the current filters.
+pub fn reload(state: &mut State) -> Vec<Effect> {
+    state.batches.rows.clear();
+    state.batches.cursor = 0;
+    state.batches.more = false;
+    state.batches.loading = true;
+    let mut query = state.batches.query.clone();
+    query.before = None;
+    vec![Effect::LoadBatches(query)]
+}
+
+fn prefetch(state: &mut State) -> Vec<Effect> {
+    let b = &mut state.batches;
+    if !b.more || b.loading || b.cursor + PREFETCH_ROWS < b.rows.len() {
+        return Vec::new();
+    }
+    let Some(cursor) = b.rows.last().and_then(|last| last.cursor.clone()) else {
+        return Vec::new();
+    };
+    let mut query = b.query.clone();
+    query.before = Some(cursor);
+    b.loading = true;
+    vec![Effect::LoadBatches(query)]
+}
+
+/// Takes in a page of the log; pages for an older query are dropped.
+pub fn page_arrived(state: &mut State, page: BatchPage) {
+    let b = &mut state.batches;
+    let mut asked = page.query.clone();
+    asked.before = None;
+    if asked != b.query {
+        return;
+    }
+    b.loading = false;
+    if page.query.before.is_none() {
+        b.rows = page.rows;
+        b.cursor = 0;
+    } else {
+        b.rows.extend(page.rows);
+    }
+    b.more = page.more;
+}
+
+/// Accepts a batch prompt; `Err` keeps the prompt open with the reason.
+pub fn accept(
+    state: &mut State,
+    purpose: &PromptPurpose,
+    text: &str,
+) -> Result<Vec<Effect>, String> {
+    let text = text.trim();
+    match purpose {
+        PromptPurpose::BatchSearch => {
+            state.batches.query.text = text.to_string();
+            Ok(reload(state))
+        }
+        PromptPurpose::BatchSince => {
+            if text.is_empty() {
+                state.batches.query.since = None;
+            } else {
+                parse_date_bound(text, DayEnd::Start)?;
+                state.batches.query.since = Some(text.to_string());
+            }
+            Ok(reload(state))
+        }
+        PromptPurpose::BatchNote(code) => {
+            if text.is_empty() {
+                return Err("type the note, or Esc to back out".into());
+            }
+            Ok(vec![Effect::AddNote {
+                code: code.clone(),
+                text: text.to_string(),
+                by: signer(state)?,
+            }])
+        }
+        _ => Ok(Vec::new()),
+    }
+}
+
+/// The effect of finalising a batch, once confirmed.
+pub fn finalize(state: &mut State, code: String) -> Vec<Effect> {
+    match signer(state) {
+        Ok(by) => vec![Effect::Finalize { code, by }],
+        Err(reason) => {
+            state.warn(reason);
+            Vec::new()
+        }
+    }
+}

@@ -1,0 +1,419 @@
+//! The recipe screen's half of `update`: lines, amounts, scaling, undo and
+//! redo, saving and opening. Every change goes through [`change`], which keeps
+//! the undo history and recomputes the analysis.
+
+use tui_input::Input;
+
+use crate::model::{Line, Recipe};
+
+use super::super::action::{Command, Effect};
+use super::super::state::{
+    Overlay, PickItem, Picker, PickerPurpose, PromptPurpose, RecipeEntry, RecipeSource, Screen,
+    State,
+};
+use super::common::{matches_words, move_cursor, prompt};
+use crate::model::units::{
+    G_PER_OZ, amount_edit_text, format_mass, parse_amount, parse_mass, parse_share, trim_number,
+};
+
+/// Most undo steps kept.
+pub const UNDO_DEPTH: usize = 200;
+
+/// Handles a command on the recipe screen.
+pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
+    let lines = state.recipe.recipe.lines.len();
+    match command {
+        c if c.moves_cursor() => {
+            state.recipe.cursor = move_cursor(state.recipe.cursor, lines, command);
+        }
+        Command::AddLine => open_ingredient_picker(state),
+        Command::EditAmount => {
+            if let Some(line) = state.recipe.recipe.lines.get(state.recipe.cursor) {
+                let title = format!("Amount of {}", state.display_name(&line.ingredient));
+                let text = amount_edit_text(line.amount, state.settings.mass_unit);
+                let at = state.recipe.cursor;
+                prompt(state, PromptPurpose::LineAmount(at), title, text);
+            }
+        }
+        Command::DeleteLine => {
+            let at = state.recipe.cursor;
+            if at < lines {
+                change(state, |r| {
+                    r.lines.remove(at);
+                });
+            }
+        }
+        Command::MoveLineUp => {
+            let at = state.recipe.cursor;
+            if at > 0 && at < lines {
+                change(state, |r| r.lines.swap(at, at - 1));
+                state.recipe.cursor = at - 1;
+            }
+        }
+        Command::MoveLineDown => {
+            let at = state.recipe.cursor;
+            if at + 1 < lines {
+                change(state, |r| r.lines.swap(at, at + 1));
+                state.recipe.cursor = at + 1;
+            }
+        }
+        Command::ScaleRecipe => match &state.recipe.analysis {
+            Ok(a) => {
+                let text = trim_number(match state.settings.mass_unit {
+                    crate::model::MassUnit::Grams => a.mass_g,
+                    crate::model::MassUnit::Imperial => a.mass_g / G_PER_OZ,
+                });
+                prompt(
+                    state,
+                    PromptPurpose::ScaleTotal,
+                    "Scale the whole recipe to a total of".into(),
+                    text,
+                );
+            }
+            Err(_) => state.warn("There is nothing to scale: the recipe weighs nothing yet."),
+        },
+        Command::SetServingTarget => {
+            let text = state
+                .recipe
+                .recipe
+                .serving_frozen_fraction
+                .map(|t| trim_number(100.0 * t))
+                .unwrap_or_default();
+            prompt(
+                state,
+                PromptPurpose::ServingTarget,
+                "Water frozen at serving, % (empty: the settings' default)".into(),
+                text,
+            );
+        }
+        Command::Rename => {
+            let name = state.recipe.recipe.name.clone();
+            prompt(state, PromptPurpose::Rename, "Recipe name".into(), name);
+        }
+        Command::Undo => undo(state),
+        Command::Redo => redo(state),
+        Command::Save => return save(state),
+        Command::SaveAsNew => {
+            let name = state.recipe.recipe.name.clone();
+            prompt(
+                state,
+                PromptPurpose::SaveAsName,
+                "Save as a new recipe named".into(),
+                name,
+            );
+        }
+        Command::SaveVersion => {
+            return vec![Effect::SaveVersion {
+                name: state.recipe.recipe.name.clone(),
+                recipe: state.recipe.recipe.clone(),
+            }];
+        }
+        Command::OpenRecipe => return vec![Effect::ListRecipes],
+        Command::OpenFile => prompt(
+            state,
+            PromptPurpose::OpenFilePath,
+            "Open the recipe file".into(),
+            String::new(),
+        ),
+        Command::ShowWarnings => {
+            state.overlay = Some(Overlay::Reader(
+                super::super::state::ReaderKind::Warnings,
+                0,
+            ));
+        }
+        Command::StartBatch => super::batch_forms::open_batch_form(state),
+        _ => {}
+    }
+    Vec::new()
+}
+
+/// Applies a change to the recipe: keeps the undo history, recomputes the analysis.
+pub fn change(state: &mut State, f: impl FnOnce(&mut Recipe)) {
+    let before = state.recipe.recipe.clone();
+    f(&mut state.recipe.recipe);
+    if state.recipe.recipe == before {
+        return;
+    }
+    state.recipe.undo.push(before);
+    if state.recipe.undo.len() > UNDO_DEPTH {
+        state.recipe.undo.remove(0);
+    }
+    state.recipe.redo.clear();
+    after_change(state);
+}
+
+fn after_change(state: &mut State) {
+    let lines = state.recipe.recipe.lines.len();
+    state.recipe.cursor = state.recipe.cursor.min(lines.saturating_sub(1));
+    state.reanalyse();
+}
+
+fn undo(state: &mut State) {
+    match state.recipe.undo.pop() {
+        Some(previous) => {
+            let current = std::mem::replace(&mut state.recipe.recipe, previous);
+            state.recipe.redo.push(current);
+            after_change(state);
+        }
+        None => state.tell("Nothing to undo."),
+    }
+}
+
+fn redo(state: &mut State) {
+    match state.recipe.redo.pop() {
+        Some(next) => {
+            let current = std::mem::replace(&mut state.recipe.recipe, next);
+            state.recipe.undo.push(current);
+            after_change(state);
+        }
+        None => state.tell("Nothing to redo."),
+    }
+}
+
+fn save(state: &mut State) -> Vec<Effect> {
+    let recipe = state.recipe.recipe.clone();
+    match &state.recipe.source {
+        RecipeSource::File { path, original } => vec![Effect::SaveFile {
+            path: path.clone(),
+            original: original.clone(),
+            recipe,
+        }],
+        RecipeSource::Database { name, .. } => vec![Effect::SaveVersion {
+            name: name.clone(),
+            recipe,
+        }],
+        RecipeSource::New => {
+            let name = recipe.name.clone();
+            prompt(
+                state,
+                PromptPurpose::SaveAsName,
+                "Save as a new recipe named".into(),
+                name,
+            );
+            Vec::new()
+        }
+    }
+}
+
+/// Puts a loaded recipe in the editor, with a fresh history.
+pub fn loaded(state: &mut State, recipe: Recipe, source: RecipeSource) {
+    let name = recipe.name.clone();
+    state.recipe.saved = recipe.clone();
+    state.recipe.recipe = recipe;
+    state.recipe.source = source;
+    state.recipe.cursor = 0;
+    state.recipe.undo.clear();
+    state.recipe.redo.clear();
+    state.screen = Screen::Recipe;
+    state.refresh_catalog();
+    state.reanalyse();
+    state.tell(format!("Opened {name}."));
+}
+
+/// Records that the recipe was saved at `source`.
+pub fn saved(state: &mut State, source: RecipeSource, recipe: Recipe) {
+    state.recipe.source = source;
+    state.recipe.saved = recipe;
+}
+
+fn open_ingredient_picker(state: &mut State) {
+    let mut picker = Picker {
+        purpose: PickerPurpose::Ingredient,
+        title: "Add a line: type to search ingredients".into(),
+        query: Input::default(),
+        items: Vec::new(),
+        cursor: 0,
+    };
+    refresh_picker(state, &mut picker);
+    state.overlay = Some(Overlay::Picker(picker));
+}
+
+/// Opens the picker over the recipes in the database.
+pub fn open_recipe_picker(state: &mut State, entries: Vec<RecipeEntry>) {
+    if entries.is_empty() {
+        state.tell("The database holds no recipes yet.");
+        return;
+    }
+    let mut picker = Picker {
+        purpose: PickerPurpose::Recipe(entries),
+        title: "Open a recipe: type to search".into(),
+        query: Input::default(),
+        items: Vec::new(),
+        cursor: 0,
+    };
+    refresh_picker(state, &mut picker);
+    state.overlay = Some(Overlay::Picker(picker));
+}
+
+/// Recomputes the picker's items for its search text.
+pub fn refresh_picker(state: &State, picker: &mut Picker) {
+    let query = picker.query.value().to_lowercase();
+    let mut items: Vec<(bool, PickItem)> = match &picker.purpose {
+        PickerPurpose::Ingredient => state
+            .catalog
+            .ingredients()
+            .filter_map(|i| {
+                let hay = format!("{} {}", i.name.to_lowercase(), i.id);
+                matches_words(&hay, &query).then(|| {
+                    let starts = i.name.to_lowercase().starts_with(query.trim())
+                        || i.id.starts_with(query.trim());
+                    (
+                        !starts,
+                        PickItem {
+                            key: i.id.clone(),
+                            label: i.name.clone(),
+                            detail: i.category.as_str().to_string(),
+                        },
+                    )
+                })
+            })
+            .collect(),
+        PickerPurpose::Recipe(entries) => entries
+            .iter()
+            .filter(|e| matches_words(&e.name.to_lowercase(), &query))
+            .map(|e| {
+                (
+                    false,
+                    PickItem {
+                        key: e.name.clone(),
+                        label: e.name.clone(),
+                        detail: format!("version {}", e.version),
+                    },
+                )
+            })
+            .collect(),
+    };
+    items.sort_by(|a, b| a.0.cmp(&b.0).then_with(|| a.1.label.cmp(&b.1.label)));
+    picker.items = items.into_iter().map(|(_, item)| item).collect();
+    picker.cursor = picker.cursor.min(picker.items.len().saturating_sub(1));
+}
+
+/// Asks for the amount of a new line of `ingredient_id`.
+pub fn ask_new_line_amount(state: &mut State, ingredient_id: &str) {
+    let title = format!("Amount of {}", state.display_name(ingredient_id));
+    prompt(
+        state,
+        PromptPurpose::NewLineAmount(ingredient_id.to_string()),
+        title,
+        String::new(),
+    );
+}
+
+/// Adds a line, copying the user's own ingredient (and own solutes) into the recipe.
+fn add_line(state: &mut State, ingredient_id: &str, amount: crate::model::Amount) {
+    let own_ingredient = state
+        .own
+        .ingredients
+        .iter()
+        .find(|i| i.id == ingredient_id)
+        .cloned();
+    let own_solutes: Vec<_> = match &own_ingredient {
+        Some(i) => state
+            .own
+            .solutes
+            .iter()
+            .filter(|s| i.solutes_pct.contains_key(&s.id))
+            .cloned()
+            .collect(),
+        None => state
+            .own
+            .solutes
+            .iter()
+            .filter(|s| s.id == ingredient_id)
+            .cloned()
+            .collect(),
+    };
+    change(state, |r| {
+        if let Some(i) = own_ingredient
+            && !r.ingredients.iter().any(|o| o.id == i.id)
+        {
+            r.ingredients.push(i);
+        }
+        for s in own_solutes {
+            if !r.solutes.iter().any(|o| o.id == s.id) {
+                r.solutes.push(s);
+            }
+        }
+        r.lines.push(Line {
+            ingredient: ingredient_id.to_string(),
+            amount,
+        });
+    });
+    state.recipe.cursor = state.recipe.recipe.lines.len().saturating_sub(1);
+    state.screen = Screen::Recipe;
+}
+
+/// Accepts a recipe prompt's text; `Err` keeps the prompt open with the reason.
+pub fn accept(
+    state: &mut State,
+    purpose: &PromptPurpose,
+    text: &str,
+) -> Result<Vec<Effect>, String> {
+    let unit = state.settings.mass_unit;
+    match purpose {
+        PromptPurpose::NewLineAmount(id) => {
+            let amount = parse_amount(text, Some(unit))?;
+            add_line(state, id, amount);
+        }
+        PromptPurpose::LineAmount(at) => {
+            let amount = parse_amount(text, Some(unit))?;
+            let at = *at;
+            change(state, |r| {
+                if let Some(line) = r.lines.get_mut(at) {
+                    line.amount = amount;
+                }
+            });
+        }
+        PromptPurpose::ScaleTotal => {
+            let target_g = parse_mass(text, Some(unit))?;
+            let current_g = state
+                .recipe
+                .analysis
+                .as_ref()
+                .map(|a| a.mass_g)
+                .map_err(|_| "there is nothing to scale".to_string())?;
+            let factor = target_g / current_g;
+            change(state, |r| *r = r.scaled(factor));
+            state.tell(format!(
+                "Scaled by {:.3} to {}.",
+                factor,
+                format_mass(target_g, unit)
+            ));
+        }
+        PromptPurpose::ServingTarget => {
+            let target = if text.trim().is_empty() {
+                None
+            } else {
+                Some(parse_share(text)?)
+            };
+            change(state, |r| r.serving_frozen_fraction = target);
+        }
+        PromptPurpose::Rename => {
+            let name = non_empty_name(text)?;
+            change(state, |r| r.name = name);
+        }
+        PromptPurpose::SaveAsName => {
+            let name = non_empty_name(text)?;
+            change(state, |r| r.name = name);
+            return Ok(vec![Effect::SaveNewRecipe(state.recipe.recipe.clone())]);
+        }
+        PromptPurpose::OpenFilePath => {
+            let path = text.trim();
+            if path.is_empty() {
+                return Err("type the path of a .toml recipe file".into());
+            }
+            return Ok(vec![Effect::OpenFile(path.into())]);
+        }
+        _ => {}
+    }
+    Ok(Vec::new())
+}
+
+fn non_empty_name(text: &str) -> Result<String, String> {
+    let name = text.trim();
+    if name.is_empty() {
+        Err("a recipe needs a name".into())
+    } else {
+        Ok(name.to_string())
+    }
+}

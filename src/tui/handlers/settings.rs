@@ -1,0 +1,83 @@
+//! The settings screen's half of `update`: units toggle in place, numbers and
+//! the operator's name are typed into a prompt. Every change is stored.
+
+use super::super::action::{Command, Effect};
+use super::super::state::{PromptPurpose, SettingField, State};
+use super::common::move_cursor;
+use super::common::prompt;
+use crate::model::units::{parse_freezing_temp, parse_share};
+use crate::model::{MassUnit, TempUnit};
+
+/// Handles a command on the settings screen.
+pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
+    let len = SettingField::ALL.len();
+    match command {
+        c if c.moves_cursor() => {
+            state.settings_cursor = move_cursor(state.settings_cursor, len, command);
+            Vec::new()
+        }
+        Command::Toggle => {
+            let field = SettingField::ALL[state.settings_cursor.min(len - 1)];
+            toggle(state, field)
+        }
+        _ => Vec::new(),
+    }
+}
+
+fn toggle(state: &mut State, field: SettingField) -> Vec<Effect> {
+    let s = &mut state.settings;
+    match field {
+        SettingField::TempUnit => {
+            s.temp_unit = match s.temp_unit {
+                TempUnit::Celsius => TempUnit::Fahrenheit,
+                TempUnit::Fahrenheit => TempUnit::Celsius,
+            };
+            stored(state)
+        }
+        SettingField::MassUnit => {
+            s.mass_unit = match s.mass_unit {
+                MassUnit::Grams => MassUnit::Imperial,
+                MassUnit::Imperial => MassUnit::Grams,
+            };
+            stored(state)
+        }
+        _ => {
+            let text = state.settings.field_text(field);
+            prompt(
+                state,
+                PromptPurpose::Setting(field),
+                field.label().into(),
+                text,
+            );
+            Vec::new()
+        }
+    }
+}
+
+fn stored(state: &mut State) -> Vec<Effect> {
+    state.reanalyse();
+    vec![Effect::SaveSettings(state.settings.clone())]
+}
+
+/// Accepts a typed setting; `Err` keeps the prompt open with the reason.
+pub fn accept(state: &mut State, field: SettingField, text: &str) -> Result<Vec<Effect>, String> {
+    let unit = state.settings.temp_unit;
+    match field {
+        SettingField::ServingTarget => state.settings.serving_frozen_fraction = parse_share(text)?,
+        SettingField::CabinetTemp => {
+            state.settings.cabinet_temp_c = parse_freezing_temp(text, unit)?
+        }
+        SettingField::FreezerTemp => {
+            state.settings.freezer_temp_c = parse_freezing_temp(text, unit)?
+        }
+        SettingField::Operator => {
+            let name = text.trim();
+            if name.chars().count() > 60 {
+                return Err("keep the operator's name under 60 characters".into());
+            }
+            state.settings.operator = name.to_string();
+        }
+        SettingField::TempUnit | SettingField::MassUnit => {}
+    }
+    Ok(stored(state))
+}

@@ -1,0 +1,9 @@
+//! The pure core checked against the outside world: published tables and
+//! standards, property tests, the catalog, and the recipe reader's errors.
+//! One test binary for all of them, so `cargo test` links few binaries.
+
+mod catalog;
+mod invalid_recipes;
+mod properties;
+mod reference_binary;
+mod reference_published;

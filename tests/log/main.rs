@@ -1,0 +1,14 @@
+//! The batch log and the command line: the store on temporary files (WAL and
+//! locking are real), migrations, imports, crash and concurrency runs of the real
+//! binary, and `gelu report` / `gelu batch` through assert_cmd. One test binary.
+
+mod batch_common;
+mod store_common;
+
+mod batch_cli;
+mod batch_processes;
+mod cli_report;
+mod store_import;
+mod store_migrate;
+mod store_open;
+mod store_records;

@@ -1,0 +1,12 @@
+//! The terminal workspace: pure `update` tests, keymap rules, snapshots of every
+//! screen, effects against a real database, and the real binary in a
+//! pseudo-terminal. One test binary.
+
+mod common;
+
+mod cautions;
+mod effects;
+mod keymap;
+mod pty;
+mod snapshots;
+mod update;
