@@ -10,9 +10,11 @@
 //!   freezing curve, ethanol-water tables).
 //! - [`catalog`]: the built-in solutes and ingredients, embedded at build time.
 //! - [`analysis`]: recipe -> every figure the user sees, with warnings and cautions.
+//! - [`measure`]: measured points -> a characterised solute; predicted against
+//!   measured over batches; explicit calibration (pure).
 //! - [`tui`]: the terminal workspace (recipe editor, ingredients, batch log, settings).
 //!
-//! `model`, `thermo`, `catalog` and `analysis` are pure: no files, no clock, no
+//! `model`, `thermo`, `catalog`, `analysis` and `measure` are pure: no files, no clock, no
 //! terminal, no SQL.
 //!
 //! ```
@@ -33,6 +35,7 @@
 pub mod analysis;
 pub mod catalog;
 pub mod cli;
+pub mod measure;
 pub mod model;
 pub mod recipe_file;
 pub mod report;
