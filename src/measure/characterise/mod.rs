@@ -22,14 +22,20 @@
 //! count, ion interactions (osmotic coefficient below 1) make M come out a few
 //! percent above the formula weight, which is what predicts freezing best.
 
-use std::collections::BTreeMap;
+mod error;
+mod fit;
+mod record;
 
 use serde::{Deserialize, Serialize};
 
-use crate::catalog::{Catalog, CatalogError, validate_id};
+use crate::catalog::{Catalog, validate_id};
 use crate::model::{Category, Ingredient, Solute, SoluteKind};
-use crate::thermo::binary::{Binary, WATER_MOLAR_MASS_KG, WaterModel};
-use crate::thermo::ice::{ln_ice_activity, temp_c_for_ln_activity};
+use crate::thermo::binary::{Binary, WaterModel};
+use crate::thermo::ice::ln_ice_activity;
+
+pub use error::CharacteriseError;
+use fit::{Prepared, apparent_molar_mass, fit, model_temp_c};
+use record::{sample_ingredient, source_text, sucrose_equivalent};
 
 /// Largest Norrish K a fit may use (dimensionless). Published values run from
 /// about 0.9 (mannitol) to 10.2 (lactose); 25 leaves room without admitting
@@ -49,10 +55,6 @@ pub const COLDEST_C: f64 = -50.0;
 
 /// Cryoscopic constant of water for the dilute-law comparison (K kg/mol).
 pub const KF_WATER: f64 = 1.8597;
-
-/// Estimated apparent specific volume of dissolved solids (mL/g), for the saved
-/// ingredient's density: typical of sugars in solution (memory).
-const SOLIDS_SPECIFIC_VOLUME_ML_G: f64 = 0.62;
 
 /// One measurement: `sample_g` of the sample in `water_g` of water froze at `freezing_point_c`.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize, Deserialize)]
@@ -171,141 +173,6 @@ pub struct Characterisation {
     /// The ingredient to save (the sample as measured), validated.
     #[serde(skip)]
     pub ingredient: Ingredient,
-}
-
-/// Why a set of points cannot be characterised.
-#[derive(Debug, Clone, PartialEq, thiserror::Error)]
-pub enum CharacteriseError {
-    /// No points.
-    #[error("no measurements: give at least one point (sample g, water g, freezing point °C)")]
-    NoPoints,
-    /// A number is NaN or infinite.
-    #[error("point {point}: {field} must be a finite number, not {value}")]
-    NotFinite {
-        /// 1-based point number.
-        point: usize,
-        /// Which field.
-        field: &'static str,
-        /// The value given.
-        value: f64,
-    },
-    /// The sample mass is not above zero.
-    #[error("point {point}: the sample must weigh more than 0 g, not {value} g")]
-    SampleNotPositive {
-        /// 1-based point number.
-        point: usize,
-        /// The value given (g).
-        value: f64,
-    },
-    /// The added water is negative.
-    #[error("point {point}: the water added must be 0 g or more, not {value} g")]
-    WaterNegative {
-        /// 1-based point number.
-        point: usize,
-        /// The value given (g).
-        value: f64,
-    },
-    /// Nothing to freeze.
-    #[error("point {point}: the sample brings no water and none was added, so nothing can freeze")]
-    NoWater {
-        /// 1-based point number.
-        point: usize,
-    },
-    /// The freezing point is not below 0 °C.
-    #[error(
-        "point {point}: a freezing point of {temp_c} °C is not below 0 °C; dissolved solids always freeze below pure water, so check the reading and the instrument's zero"
-    )]
-    NotBelowZero {
-        /// 1-based point number.
-        point: usize,
-        /// The reading (°C).
-        temp_c: f64,
-    },
-    /// The freezing point is too cold for the ice model.
-    #[error(
-        "point {point}: {temp_c} °C is colder than {COLDEST_C} °C, beyond the ice model gelu uses"
-    )]
-    TooCold {
-        /// 1-based point number.
-        point: usize,
-        /// The reading (°C).
-        temp_c: f64,
-    },
-    /// The dry matter is out of range.
-    #[error("the dry matter must be above 0 % and at most 100 %, not {value} %")]
-    BadSolids {
-        /// The value given (mass % or °Brix).
-        value: f64,
-    },
-    /// The dissociation factor is out of range.
-    #[error(
-        "the dissociation factor must be above 0 and at most 10 (1 for sugars, 2 for table salt), not {value}"
-    )]
-    BadDissociation {
-        /// The value given.
-        value: f64,
-    },
-    /// The precision is not a positive number.
-    #[error("the reading precision must be a positive number of kelvin, not {value}")]
-    BadPrecision {
-        /// The value given (K).
-        value: f64,
-    },
-    /// More solute froze warmer.
-    #[error(
-        "point {warmer} has more sample per gram of water than point {colder} but froze warmer ({warmer_c} °C against {colder_c} °C); more solute can only freeze colder, so one of the two is wrong"
-    )]
-    Contradiction {
-        /// The more concentrated point that froze warmer (1-based).
-        warmer: usize,
-        /// The less concentrated point (1-based).
-        colder: usize,
-        /// Reading of the first (°C).
-        warmer_c: f64,
-        /// Reading of the second (°C).
-        colder_c: f64,
-    },
-    /// No Norrish K in range fits.
-    #[error(
-        "no Norrish K from 0 to {NORRISH_K_MAX} makes the points agree: point {point} is {residual_k:+.3} K off the best fit (K = {norrish_k:.2}), more than the {tolerance_k:.3} K its precision allows; check the weighings and the readings"
-    )]
-    NoSaneFit {
-        /// The worst point (1-based).
-        point: usize,
-        /// Its residual (K).
-        residual_k: f64,
-        /// The tolerance it broke (K).
-        tolerance_k: f64,
-        /// The best K found.
-        norrish_k: f64,
-    },
-    /// The catalog has no sucrose to compare with.
-    #[error("the catalog has no `sucrose` to state the sucrose equivalent against")]
-    NoSucrose,
-    /// The solute or ingredient to save is invalid.
-    #[error(transparent)]
-    Catalog(#[from] CatalogError),
-}
-
-/// A point reduced to what the fit needs.
-#[derive(Debug, Clone, Copy)]
-struct Prepared {
-    solids_g: f64,
-    water_g: f64,
-    ln_aw: f64,
-    temp_c: f64,
-}
-
-impl Prepared {
-    /// Solids per gram of water (g/g).
-    fn concentration(&self) -> f64 {
-        self.solids_g / self.water_g
-    }
-
-    /// Depression below 0 °C (K).
-    fn depression_k(&self) -> f64 {
-        -self.temp_c
-    }
 }
 
 /// Characterises the sample from its points; the solute and ingredient are
@@ -513,220 +380,5 @@ fn check_residuals(
             })
         }
         _ => Ok(()),
-    }
-}
-
-/// Particle mole fraction x_s at which ln(1 − x) − K x² equals `ln_aw` (bisection; K ≥ 0).
-fn particle_fraction(ln_aw: f64, norrish_k: f64) -> f64 {
-    let f = |x: f64| (1.0 - x).ln() - norrish_k * x * x - ln_aw;
-    let (mut lo, mut hi) = (0.0_f64, 1.0 - 1e-12);
-    for _ in 0..200 {
-        let mid = 0.5 * (lo + hi);
-        if f(mid) > 0.0 {
-            lo = mid;
-        } else {
-            hi = mid;
-        }
-        if hi - lo < 1e-15 {
-            break;
-        }
-    }
-    0.5 * (lo + hi)
-}
-
-/// The molar mass (g/mol) one point gives for Norrish constant `norrish_k`.
-fn apparent_molar_mass(p: &Prepared, i: f64, norrish_k: f64) -> f64 {
-    let x = particle_fraction(p.ln_aw, norrish_k);
-    let water_mol = p.water_g / 1000.0 / WATER_MOLAR_MASS_KG;
-    let particles = water_mol * x / (1.0 - x);
-    i * p.solids_g / particles
-}
-
-/// The model's freezing point (°C) for a point.
-fn model_temp_c(binary: &Binary, molar_mass: f64, p: &Prepared) -> f64 {
-    let molality = p.solids_g / molar_mass / (p.water_g / 1000.0);
-    temp_c_for_ln_activity(binary.ln_aw(molality))
-}
-
-/// Sum of squared temperature residuals (K²).
-fn sse(points: &[Prepared], i: f64, molar_mass: f64, norrish_k: f64) -> f64 {
-    let binary = Binary {
-        dissociation: i,
-        model: WaterModel::Ideal { norrish_k },
-    };
-    points
-        .iter()
-        .map(|p| (model_temp_c(&binary, molar_mass, p) - p.temp_c).powi(2))
-        .sum()
-}
-
-/// Golden-section minimum of `f` on [lo, hi].
-fn golden_min(mut lo: f64, mut hi: f64, f: impl Fn(f64) -> f64) -> f64 {
-    const R: f64 = 0.618_033_988_749_895;
-    let mut c = hi - R * (hi - lo);
-    let mut d = lo + R * (hi - lo);
-    let (mut fc, mut fd) = (f(c), f(d));
-    for _ in 0..80 {
-        if fc < fd {
-            hi = d;
-            d = c;
-            fd = fc;
-            c = hi - R * (hi - lo);
-            fc = f(c);
-        } else {
-            lo = c;
-            c = d;
-            fc = fd;
-            d = lo + R * (hi - lo);
-            fd = f(d);
-        }
-        if (hi - lo).abs() < 1e-12 * (1.0 + lo.abs()) {
-            break;
-        }
-    }
-    0.5 * (lo + hi)
-}
-
-/// Best molar mass for a given K: between the smallest and largest single-point value.
-fn best_molar_mass(points: &[Prepared], i: f64, norrish_k: f64) -> f64 {
-    let apparent: Vec<f64> = points
-        .iter()
-        .map(|p| apparent_molar_mass(p, i, norrish_k).ln())
-        .collect();
-    let lo = apparent.iter().copied().fold(f64::INFINITY, f64::min);
-    let hi = apparent.iter().copied().fold(f64::NEG_INFINITY, f64::max);
-    if hi - lo < 1e-12 {
-        return lo.exp();
-    }
-    golden_min(lo, hi, |ln_m| sse(points, i, ln_m.exp(), norrish_k)).exp()
-}
-
-/// Least-squares (M, K): a grid over K, refined by golden section around the best.
-fn fit(points: &[Prepared], i: f64) -> (f64, f64) {
-    let profile = |k: f64| sse(points, i, best_molar_mass(points, i, k), k);
-    let steps = 100;
-    let step = NORRISH_K_MAX / steps as f64;
-    let best = (0..=steps)
-        .map(|s| s as f64 * step)
-        .map(|k| (k, profile(k)))
-        .min_by(|a, b| a.1.total_cmp(&b.1))
-        .map_or(0.0, |(k, _)| k);
-    let k = golden_min(
-        (best - step).max(0.0),
-        (best + step).min(NORRISH_K_MAX),
-        profile,
-    );
-    (best_molar_mass(points, i, k), k)
-}
-
-/// Grams of sucrose per gram of these solids giving the same freezing point, at the
-/// reference concentration (equal water activity means equal freezing point).
-fn sucrose_equivalent(
-    binary: &Binary,
-    molar_mass: f64,
-    catalog: &Catalog,
-) -> Result<f64, CharacteriseError> {
-    let sucrose = catalog
-        .solute("sucrose")
-        .ok_or(CharacteriseError::NoSucrose)?;
-    let reference = SUCROSE_EQUIVALENT_REFERENCE_G_PER_100G_WATER;
-    let molality = reference / molar_mass / 0.1;
-    let ln_aw = binary.ln_aw(molality);
-    let sucrose_molality = sucrose.binary.molality_at(ln_aw, None);
-    let sucrose_g_per_100g_water = sucrose_molality * sucrose.solute.molar_mass_g_mol * 0.1;
-    Ok(sucrose_g_per_100g_water / reference)
-}
-
-/// The `source` text that records the measurements.
-fn source_text(spec: &SampleSpec, points: &[DilutionPoint], norrish_k: Option<f64>) -> String {
-    let readings: Vec<String> = points
-        .iter()
-        .map(|p| {
-            format!(
-                "{} g in {} g water froze at {} °C",
-                p.sample_g, p.water_g, p.freezing_point_c
-            )
-        })
-        .collect();
-    let basis = match spec.dry_matter {
-        DryMatter::SolidsPct(p) => format!("{p} % dissolved solids"),
-        DryMatter::Brix(b) => format!("{b} °Brix taken as % dissolved solids"),
-    };
-    let k = match norrish_k {
-        Some(k) => format!("Norrish K {k:.2} fitted"),
-        None => "one point, so ideal law (K = 0)".to_string(),
-    };
-    format!(
-        "measured freezing points (cryoscopic method): {}; sample {basis}, i = {}; Murphy & Koop ice activity, {k}",
-        readings.join("; "),
-        spec.dissociation
-    )
-}
-
-/// The sample as measured: its water and its dissolved solids as the new solute.
-fn sample_ingredient(spec: &SampleSpec, solute: &Solute, solids_pct: f64) -> Ingredient {
-    let solids = solids_pct / 100.0;
-    let specific_volume = (1.0 - solids) + solids * SOLIDS_SPECIFIC_VOLUME_ML_G;
-    Ingredient {
-        id: spec.id.clone(),
-        name: spec.name.clone(),
-        category: spec.category,
-        water_pct: 100.0 - solids_pct,
-        fat_pct: 0.0,
-        protein_pct: 0.0,
-        other_solids_pct: 0.0,
-        solutes_pct: BTreeMap::from([(solute.id.clone(), solids_pct)]),
-        density_g_ml: 1.0 / specific_volume,
-        allergens: Vec::new(),
-        source: format!(
-            "{}; density estimated from typical specific volumes, measure it for amounts by volume",
-            solute.source
-        ),
-    }
-}
-
-#[cfg(test)]
-mod tests {
-    use super::*;
-
-    #[test]
-    fn a_single_ideal_point_gives_back_its_molar_mass() {
-        // Build a point from the ideal law itself: 10 g of M = 200 g/mol in 1000 g water.
-        let binary = Binary {
-            dissociation: 1.0,
-            model: WaterModel::Ideal { norrish_k: 0.0 },
-        };
-        let t = temp_c_for_ln_activity(binary.ln_aw(10.0 / 200.0));
-        let p = Prepared {
-            solids_g: 10.0,
-            water_g: 1000.0,
-            ln_aw: ln_ice_activity(t),
-            temp_c: t,
-        };
-        assert!((apparent_molar_mass(&p, 1.0, 0.0) - 200.0).abs() < 1e-6);
-    }
-
-    #[test]
-    fn the_fit_recovers_a_known_norrish_k() {
-        // Points made from M = 150 g/mol, K = 4 must give both back.
-        let binary = Binary {
-            dissociation: 1.0,
-            model: WaterModel::Ideal { norrish_k: 4.0 },
-        };
-        let points: Vec<Prepared> = [20.0, 150.0, 400.0, 800.0]
-            .iter()
-            .map(|g| {
-                let t = temp_c_for_ln_activity(binary.ln_aw(g / 150.0));
-                Prepared {
-                    solids_g: *g,
-                    water_g: 1000.0,
-                    ln_aw: ln_ice_activity(t),
-                    temp_c: t,
-                }
-            })
-            .collect();
-        let (m, k) = fit(&points, 1.0);
-        assert!((m - 150.0).abs() < 0.01, "{m}");
-        assert!((k - 4.0).abs() < 0.01, "{k}");
     }
 }
