@@ -14,6 +14,20 @@
 //!   batches, with the batches far off flagged and likely causes in words.
 //! - [`fit_correction`]: an explicit, shrunk calibration offset per style or recipe.
 //!
+//! For the command line: the JSON of `gelu characterise` is
+//! `serde_json::to_value(&Characterisation)`, whose keys `molar_mass_g_mol`,
+//! `norrish_k` (null with one point), `sucrose_equivalent` and `points`
+//! (`sample_g`, `water_g`, `freezing_point_c`, `model_c`, `residual_k`) are the
+//! contract; more keys are reported beside them (`dissociation`, `solids_pct`,
+//! `rms_residual_k`, per point `apparent_molar_mass_g_mol`, …). `--save FILE`
+//! writes [`Characterisation::solute`] and [`Characterisation::ingredient`]
+//! (already validated with [`crate::catalog::Catalog::with_additions`]); the
+//! ingredient's id is the one given, so `ingredient = "ID"` in a recipe means
+//! the sample as measured. `gelu batch compare` builds one [`Comparison`] per
+//! logged measurement whose kind [`Predictions::for_kind`] answers, then prints
+//! [`summarise`] (serialisable) and [`render_chart`]. A [`Correction`] is shown
+//! beside, never folded into, a prediction: [`Correction::describe`].
+//!
 //! ```
 //! use gelu::catalog::Catalog;
 //! use gelu::measure::{DilutionPoint, SampleSpec, characterise};
