@@ -15,6 +15,8 @@
 //! - [`report`]: an analysis -> text (with a character chart) or JSON.
 //! - [`batch`]: the batch domain: records, planning, amendments, measured against
 //!   predicted, JSON and CSV forms.
+//! - [`measure`]: measured points -> a characterised solute; predicted against
+//!   measured over batches; explicit calibration.
 //!
 //! The shell around it:
 //! - [`recipe_file`]: recipe TOML files in and out, keeping comments on save.
@@ -44,6 +46,7 @@ pub mod batch;
 pub mod catalog;
 pub mod cli;
 pub mod clock;
+pub mod measure;
 pub mod model;
 pub mod recipe_file;
 pub mod report;

@@ -4,6 +4,7 @@
 
 mod catalog;
 mod invalid_recipes;
+mod measure;
 mod properties;
 mod reference_binary;
 mod reference_published;

@@ -1,0 +1,32 @@
+//! The predicted draw temperature: the temperature at which a mix leaves the
+//! freezer with a given share of its water frozen.
+
+use crate::analysis::{AnalysisError, Options, analyze};
+use crate::catalog::Catalog;
+use crate::model::Recipe;
+
+/// Share of the water frozen at draw (0..1): about half the water is frozen as
+/// the mix leaves the freezer (McGee, On Food and Cooking; PRACTICE.md).
+pub const DEFAULT_DRAW_FROZEN_FRACTION: f64 = 0.5;
+
+/// Where the default draw share comes from, for reports.
+pub const DRAW_FROZEN_FRACTION_SOURCE: &str =
+    "about half the water is frozen at draw (McGee, On Food and Cooking)";
+
+/// The temperature (°C) at which `frozen_fraction` (0..1) of the recipe's water
+/// is frozen; `None` when the mix never freezes that far above −60 °C.
+/// Uses the same freezing curve as the serving temperature.
+pub fn predicted_draw_temp_c(
+    recipe: &Recipe,
+    catalog: &Catalog,
+    frozen_fraction: f64,
+) -> Result<Option<f64>, AnalysisError> {
+    if !(frozen_fraction > 0.0 && frozen_fraction < 1.0) {
+        return Ok(None);
+    }
+    let options = Options {
+        serving_frozen_fraction: Some(frozen_fraction),
+        ..Options::default()
+    };
+    Ok(analyze(recipe, catalog, &options)?.serving_temp_c)
+}
