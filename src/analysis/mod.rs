@@ -41,6 +41,20 @@ pub enum AnalysisError {
         /// The nearest known ids.
         suggestions: Vec<String>,
     },
+    /// A line names a spirit by a strength that cannot be (out of range, wrong unit).
+    #[error(
+        "line {line}: `{id}` is not a spirit gelu can make: {why} (did you mean `{suggestion}`?)"
+    )]
+    BadSpirit {
+        /// 1-based line number in the recipe.
+        line: usize,
+        /// The id as written.
+        id: String,
+        /// What is wrong with it.
+        why: String,
+        /// The nearest spirit id that resolves.
+        suggestion: String,
+    },
     /// An ingredient names a solute nobody knows.
     #[error("ingredient `{ingredient}` contains the unknown solute `{id}`")]
     UnknownSolute {
@@ -226,10 +240,11 @@ fn analyze_with(
         ethanol_pct: pct(ethanol_g, total),
         other_solids_pct: pct(mix.other_solids_g, total),
     };
+    // Mass balance: a composition may add to 100 within the catalog's tolerance.
     debug_assert!(
         (mix.water_g + mix.fat_g + mix.protein_g + mix.other_solids_g + all_solutes_g - total)
             .abs()
-            < 1e-6 * total.max(1.0)
+            <= (crate::catalog::COMPOSITION_TOLERANCE_PCT / 100.0 + 1e-9) * total.max(1.0)
     );
     let solutes_pct = mix
         .solutes
