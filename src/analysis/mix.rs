@@ -53,6 +53,14 @@ impl<'c> Mix<'c> {
         let mut mix = Mix::default();
         for (index, line) in recipe.lines.iter().enumerate() {
             let Some(ing) = catalog.ingredient(&line.ingredient) else {
+                if let Some(problem) = catalog.spirit_id_problem(&line.ingredient) {
+                    return Err(AnalysisError::BadSpirit {
+                        line: index + 1,
+                        id: line.ingredient.clone(),
+                        why: problem.why,
+                        suggestion: problem.suggestion,
+                    });
+                }
                 return Err(AnalysisError::UnknownIngredient {
                     line: index + 1,
                     id: line.ingredient.clone(),

@@ -41,6 +41,20 @@ pub enum AnalysisError {
         /// The nearest known ids.
         suggestions: Vec<String>,
     },
+    /// A line names a spirit by a strength that cannot be (out of range, wrong unit).
+    #[error(
+        "line {line}: `{id}` is not a spirit gelu can make: {why} (did you mean `{suggestion}`?)"
+    )]
+    BadSpirit {
+        /// 1-based line number in the recipe.
+        line: usize,
+        /// The id as written.
+        id: String,
+        /// What is wrong with it.
+        why: String,
+        /// The nearest spirit id that resolves.
+        suggestion: String,
+    },
     /// An ingredient names a solute nobody knows.
     #[error("ingredient `{ingredient}` contains the unknown solute `{id}`")]
     UnknownSolute {
@@ -172,6 +186,11 @@ pub struct Analysis {
     pub data_limit_temp_c: Option<f64>,
     /// The classic sucrose-equivalent estimate of the freezing point (°C), for comparison.
     pub classic_freezing_point_c: Option<f64>,
+    /// Whether the classic method applies to this recipe (a frozen dairy-style
+    /// dessert without an excess of alcohol or salt, in the range of its table).
+    pub classic_applies: bool,
+    /// Why the classic method does not apply, in words; `None` where it does.
+    pub classic_note: Option<String>,
     /// Allergens present.
     pub allergens: Vec<String>,
     /// Warnings, most serious first.
@@ -226,10 +245,11 @@ fn analyze_with(
         ethanol_pct: pct(ethanol_g, total),
         other_solids_pct: pct(mix.other_solids_g, total),
     };
+    // Mass balance: a composition may add to 100 within the catalog's tolerance.
     debug_assert!(
         (mix.water_g + mix.fat_g + mix.protein_g + mix.other_solids_g + all_solutes_g - total)
             .abs()
-            < 1e-6 * total.max(1.0)
+            <= (crate::catalog::COMPOSITION_TOLERANCE_PCT / 100.0 + 1e-9) * total.max(1.0)
     );
     let solutes_pct = mix
         .solutes
@@ -257,6 +277,7 @@ fn analyze_with(
     let ice_curve = (0..=steps)
         .map(|k| point(-(k as f64) * CURVE_STEP_K))
         .collect();
+    let classic = classic::classic(&mix, catalog, recipe.style.is_drink());
     let mut analysis = Analysis {
         name: recipe.name.clone(),
         style: recipe.style,
@@ -286,12 +307,14 @@ fn analyze_with(
             .map(|k| -(k as f64) * CURVE_STEP_K)
             .find(|t| serum.share_beyond_data(*t) > 0.5)
             .filter(|_| mix.water_g > 0.0),
-        classic_freezing_point_c: classic::classic_freezing_point_c(&mix, catalog),
+        classic_freezing_point_c: classic.freezing_point_c,
+        classic_applies: classic.applies,
+        classic_note: classic.note,
         allergens: mix.allergens.clone(),
         warnings: Vec::new(),
         cautions: Vec::new(),
     };
-    analysis.warnings = warnings::warnings(&analysis, &mix, options.temp_unit);
+    analysis.warnings = warnings::warnings(&analysis, &mix, catalog, options.temp_unit);
     analysis.cautions = warnings::cautions(&analysis, &mix);
     Ok(analysis)
 }

@@ -4,9 +4,12 @@
 //! freezing curve is tabulated for the ZSR rule.
 //!
 //! A recipe's own solutes and ingredients are layered on top with
-//! [`Catalog::with_additions`], which validates them.
+//! [`Catalog::with_additions`], which validates them. Neutral spirits at any
+//! strength (`spirit-57-vol`, `spirit-114-proof`) resolve by id without being
+//! listed: see [`spirit`].
 
 mod spec;
+pub mod spirit;
 mod suggest;
 
 use std::collections::HashMap;
@@ -158,11 +161,13 @@ impl Catalog {
         self.solute_index.get(id).map(|k| self.solutes[*k].as_ref())
     }
 
-    /// The ingredient with this id (every solute id is also one).
+    /// The ingredient with this id (every solute id is also one, and so is every
+    /// neutral spirit strength written `spirit-<ABV>-vol` or `spirit-<proof>-proof`).
     pub fn ingredient(&self, id: &str) -> Option<&Ingredient> {
-        self.ingredient_index
-            .get(id)
-            .map(|k| self.ingredients[*k].as_ref())
+        match self.ingredient_index.get(id) {
+            Some(k) => Some(self.ingredients[*k].as_ref()),
+            None => spirit::resolve(id),
+        }
     }
 
     /// All solutes, in catalog order.
@@ -170,14 +175,32 @@ impl Catalog {
         self.solutes.iter().map(|s| s.as_ref())
     }
 
-    /// All ingredients, in catalog order (pure solutes included).
+    /// All listed ingredients, in catalog order (pure solutes included; of the
+    /// spirits only the usual strengths the catalog file names).
     pub fn ingredients(&self) -> impl Iterator<Item = &Ingredient> {
         self.ingredients.iter().map(|i| i.as_ref())
     }
 
-    /// The nearest known ingredient ids to `id`, best first.
+    /// The nearest known ingredient ids to `id`, best first. For a spirit id that
+    /// does not resolve (out of range, off the grid, wrong unit) the nearest valid
+    /// spirit comes first.
     pub fn nearest_ingredients(&self, id: &str) -> Vec<String> {
-        nearest(id, self.ingredient_index.keys().map(String::as_str), 3)
+        let mut near = nearest(id, self.ingredient_index.keys().map(String::as_str), 3);
+        if let Some(Err(e)) = spirit::parse(id) {
+            near.retain(|n| *n != e.suggestion);
+            near.insert(0, e.suggestion);
+            near.truncate(3);
+        }
+        near
+    }
+
+    /// Why `id` does not name a spirit, when it is shaped like a spirit id that
+    /// does not resolve; `None` for every other id.
+    pub fn spirit_id_problem(&self, id: &str) -> Option<spirit::SpiritIdError> {
+        if self.ingredient_index.contains_key(id) {
+            return None;
+        }
+        spirit::parse(id)?.err()
     }
 
     /// The nearest known solute ids to `id`, best first.
@@ -212,7 +235,10 @@ impl Catalog {
 
     /// Checks an ingredient's id, parts, total, solutes and density against this catalog.
     pub fn validate_ingredient(&self, i: &Ingredient) -> Result<(), CatalogError> {
-        validate_id(&i.id)?;
+        // A spirit id may hold a decimal point (`spirit-37.5-vol`).
+        if !matches!(spirit::parse(&i.id), Some(Ok(_))) {
+            validate_id(&i.id)?;
+        }
         let parts = [
             ("water_pct", i.water_pct),
             ("fat_pct", i.fat_pct),

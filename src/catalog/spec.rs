@@ -33,6 +33,16 @@ struct CatalogFile {
     solute: Vec<SoluteSpec>,
     #[serde(default)]
     ingredient: Vec<IngredientTable>,
+    #[serde(default)]
+    spirits: Option<SpiritsSpec>,
+}
+
+/// The neutral spirits listed for browsing (every strength resolves by id anyway).
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct SpiritsSpec {
+    /// Strengths to list (% vol at 20 °C).
+    listed_abv_pct: Vec<f64>,
 }
 
 #[derive(Deserialize)]
@@ -241,5 +251,13 @@ pub fn parse_catalog(text: &str) -> Result<(Vec<Solute>, Vec<Ingredient>), Catal
                 })
         })
         .collect::<Result<Vec<_>, _>>()?;
+    let mut ingredients = ingredients;
+    for abv_pct in file.spirits.map(|s| s.listed_abv_pct).unwrap_or_default() {
+        let spirit = super::spirit::listed(abv_pct).ok_or_else(|| CatalogFileError::Entry {
+            id: format!("spirits.listed_abv_pct {abv_pct}"),
+            why: "not a strength above 0 and at most 100 % vol in steps of 0.05".into(),
+        })?;
+        ingredients.push(spirit);
+    }
     Ok((solutes, ingredients))
 }

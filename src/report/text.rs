@@ -30,11 +30,20 @@ pub fn report_text(a: &Analysis, unit: TempUnit) -> String {
         "Freezing point        {}",
         temp_or(unit, a.freezing_point_c, "none (no water, or below -60 °C)")
     );
-    let _ = writeln!(
-        o,
-        "  classic method      {}",
-        temp_or(unit, a.classic_freezing_point_c, "-")
-    );
+    if a.classic_applies {
+        let _ = writeln!(
+            o,
+            "  classic method      {}",
+            temp_or(unit, a.classic_freezing_point_c, "-")
+        );
+    } else {
+        let why = a
+            .classic_note
+            .as_deref()
+            .and_then(|n| n.split_once(": ").map(|(_, why)| why))
+            .unwrap_or("outside its range");
+        let _ = writeln!(o, "  classic method      not applicable ({why})");
+    }
     let _ = writeln!(
         o,
         "  dilute-law estimate {}",

@@ -8,3 +8,4 @@ mod measure;
 mod properties;
 mod reference_binary;
 mod reference_published;
+mod warnings;

@@ -244,6 +244,59 @@ const CRC_FREEZING: &[(&str, f64, f64)] = &[
     ("sodium-chloride", 21.0, 17.78),
     ("sodium-chloride", 22.0, 19.18),
     ("sodium-chloride", 23.0, 20.67),
+    // Added with the fitted acid and potassium chloride models; same source as above.
+    ("citric-acid", 0.5, 0.05),
+    ("citric-acid", 1.0, 0.11),
+    ("citric-acid", 2.0, 0.21),
+    ("citric-acid", 3.0, 0.32),
+    ("citric-acid", 4.0, 0.43),
+    ("citric-acid", 5.0, 0.54),
+    ("citric-acid", 6.0, 0.65),
+    ("citric-acid", 7.0, 0.76),
+    ("citric-acid", 8.0, 0.88),
+    ("citric-acid", 9.0, 1.0),
+    ("citric-acid", 10.0, 1.12),
+    ("citric-acid", 12.0, 1.38),
+    ("citric-acid", 14.0, 1.66),
+    ("citric-acid", 16.0, 1.95),
+    ("citric-acid", 18.0, 2.26),
+    ("citric-acid", 20.0, 2.57),
+    ("citric-acid", 22.0, 2.88),
+    ("citric-acid", 24.0, 3.21),
+    ("citric-acid", 26.0, 3.55),
+    ("citric-acid", 28.0, 3.89),
+    ("citric-acid", 30.0, 4.25),
+    // D-lactic acid in the CRC table; the enantiomers and the racemate freeze alike.
+    ("lactic-acid", 0.5, 0.1),
+    ("lactic-acid", 1.0, 0.19),
+    ("lactic-acid", 2.0, 0.38),
+    ("lactic-acid", 3.0, 0.57),
+    ("lactic-acid", 4.0, 0.76),
+    ("lactic-acid", 5.0, 0.95),
+    ("lactic-acid", 6.0, 1.16),
+    ("lactic-acid", 7.0, 1.36),
+    ("lactic-acid", 8.0, 1.57),
+    ("lactic-acid", 9.0, 1.79),
+    ("lactic-acid", 10.0, 2.02),
+    ("lactic-acid", 12.0, 2.49),
+    ("lactic-acid", 14.0, 2.99),
+    ("lactic-acid", 16.0, 3.48),
+    ("lactic-acid", 18.0, 3.96),
+    ("lactic-acid", 20.0, 4.44),
+    ("potassium-chloride", 0.5, 0.23),
+    ("potassium-chloride", 1.0, 0.46),
+    ("potassium-chloride", 2.0, 0.92),
+    ("potassium-chloride", 3.0, 1.38),
+    ("potassium-chloride", 4.0, 1.85),
+    ("potassium-chloride", 5.0, 2.32),
+    ("potassium-chloride", 6.0, 2.8),
+    ("potassium-chloride", 7.0, 3.29),
+    ("potassium-chloride", 8.0, 3.8),
+    ("potassium-chloride", 9.0, 4.3),
+    ("potassium-chloride", 10.0, 4.81),
+    ("potassium-chloride", 11.0, 5.33),
+    ("potassium-chloride", 12.0, 5.88),
+    ("potassium-chloride", 13.0, 6.45),
 ];
 
 fn tolerance_k(delta_t: f64) -> f64 {
@@ -295,7 +348,7 @@ fn every_builtin_binary_solution_matches_crc_freezing_points() {
             ));
         }
     }
-    assert_eq!(CRC_FREEZING.len(), 230, "the whole CRC table is checked");
+    assert_eq!(CRC_FREEZING.len(), 281, "the whole CRC table is checked");
     assert!(
         failures.is_empty(),
         "outside tolerance:\n{}",
