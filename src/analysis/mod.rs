@@ -2,6 +2,7 @@
 //! purely and cheaply enough to redo on every keystroke.
 
 mod classic;
+mod freezer;
 mod mix;
 mod targets;
 mod warnings;
@@ -13,6 +14,7 @@ use serde::Serialize;
 use crate::catalog::{Catalog, CatalogError, suggest_text};
 use crate::model::{Recipe, SoluteKind, Style, TempUnit};
 
+pub use freezer::{FROZEN_FROZEN_FRACTION, FreezerBehaviour, SLUSH_FROZEN_FRACTION};
 pub use mix::Mix;
 pub use targets::{StyleTargets, targets_for};
 pub use warnings::{Severity, Warning};
@@ -179,6 +181,8 @@ pub struct Analysis {
     pub cabinet: CurvePoint,
     /// Frozen share at the freezer temperature.
     pub freezer: CurvePoint,
+    /// What the freezer does to it, in a distiller's words (from `freezer`).
+    pub freezer_behaviour: FreezerBehaviour,
     /// Temperature at which freezing stops at maximal freeze concentration (°C), if above -60 °C.
     pub glass_limit_temp_c: Option<f64>,
     /// Warmest temperature (°C) of the curve below which solutes holding most of the
@@ -278,6 +282,7 @@ fn analyze_with(
         .map(|k| point(-(k as f64) * CURVE_STEP_K))
         .collect();
     let classic = classic::classic(&mix, catalog, recipe.style.is_drink());
+    let freezer = point(options.freezer_temp_c);
     let mut analysis = Analysis {
         name: recipe.name.clone(),
         style: recipe.style,
@@ -301,7 +306,8 @@ fn analyze_with(
         ice_curve,
         at: options.at_temps_c.iter().map(|t| point(*t)).collect(),
         cabinet: point(options.cabinet_temp_c),
-        freezer: point(options.freezer_temp_c),
+        freezer,
+        freezer_behaviour: FreezerBehaviour::from_frozen_fraction(freezer.frozen_fraction),
         glass_limit_temp_c: serum.glass_limit_temp_c(),
         data_limit_temp_c: (1..=steps)
             .map(|k| -(k as f64) * CURVE_STEP_K)

@@ -8,7 +8,7 @@ use crate::catalog::Catalog;
 use crate::model::{Category, Style, TempUnit};
 
 use super::classic::{classic_frozen_fraction, classic_temp_for_frozen_fraction};
-use super::{Analysis, Mix, targets_for};
+use super::{Analysis, FreezerBehaviour, Mix, targets_for};
 
 /// How much a warning matters.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Serialize)]
@@ -58,9 +58,6 @@ pub const DEXTROSE_GRANULATION_SHARE: f64 = 0.25;
 /// Sucrose per 100 g of water at saturation at 0 °C: 179 g (sugar-analysis
 /// handbooks, REFERENCES.md §6).
 pub const SUCROSE_SOLUBILITY_0C_G_PER_100G_WATER: f64 = 179.0;
-/// Share of a drink's water frozen in the freezer from which it reads as nearly
-/// solid rather than slush (our limit: half the water as ice; no published rule).
-pub const DRINK_SOLID_FROZEN_FRACTION: f64 = 0.5;
 /// Slack (mass %) before a composition counts as outside a style's range: the
 /// ranges are given to a tenth of a percent (rounding, not a rule).
 const STYLE_TARGET_SLACK_PCT: f64 = 0.05;
@@ -106,28 +103,29 @@ pub fn warnings(a: &Analysis, mix: &Mix, catalog: &Catalog, unit: TempUnit) -> V
             ),
         );
     }
-    // Drinks in the freezer.
+    // Drinks in the freezer, in the tiers of `FreezerBehaviour`.
     if a.style.is_drink() && water_g > 0.0 {
-        let f = a.freezer.frozen_fraction;
+        let share = 100.0 * a.freezer.frozen_fraction;
         let t = fmt_temp(a.freezer.temp_c);
-        if f >= DRINK_SOLID_FROZEN_FRACTION {
-            add(
-                "freezes-in-freezer",
-                Severity::Problem,
+        match a.freezer_behaviour {
+            FreezerBehaviour::NoIce => {}
+            FreezerBehaviour::AFewCrystals => add(
+                "crystals-in-freezer",
+                Severity::Note,
                 format!(
-                    "At {t} this freezes nearly solid: {:.0} % of its water is ice.",
-                    100.0 * f
+                    "At {t} a few ice crystals form: {share:.1} % of its water is ice; it still pours."
                 ),
-            );
-        } else if f > 0.0 {
-            add(
+            ),
+            FreezerBehaviour::Slush => add(
                 "slush-in-freezer",
                 Severity::Advice,
-                format!(
-                    "At {t} this turns to slush: {:.0} % of its water is ice.",
-                    100.0 * f
-                ),
-            );
+                format!("At {t} this turns to slush: {share:.0} % of its water is ice."),
+            ),
+            FreezerBehaviour::Frozen => add(
+                "freezes-in-freezer",
+                Severity::Problem,
+                format!("At {t} this freezes nearly solid: {share:.0} % of its water is ice."),
+            ),
         }
     }
     // Texture at the cabinet.

@@ -10,15 +10,16 @@ use super::types::{BatchLine, NewBatch};
 use crate::analysis::{Options, analyze};
 use crate::catalog::Catalog;
 use crate::model::units::parse_amount;
-use crate::model::{Amount, Recipe};
+use crate::model::{Amount, MassUnit, Recipe};
 use crate::report::json::analysis_json;
 
 type Result<T> = std::result::Result<T, Invalid>;
 
 /// Reads a batch size as people write it: a number and a unit, by mass (`5kg`,
-/// `800 g`, `10 lb`) or by volume (`1.5L`, `750mL`, `5 gallons`); above zero.
-pub fn parse_size(text: &str) -> Result<Amount> {
-    match parse_amount(text, None).map_err(Invalid)? {
+/// `800 g`, `10 lb`) or by volume (`1.5L`, `750mL`, `5 gallons`); above zero. A
+/// bare number is in `bare` (g or oz) when given; with `None` a unit is required.
+pub fn parse_size(text: &str, bare: Option<MassUnit>) -> Result<Amount> {
+    match parse_amount(text, bare).map_err(Invalid)? {
         Amount::Grams(v) | Amount::Millilitres(v) if v <= 0.0 => Err(Invalid(format!(
             "`{}`: a batch size must be above zero",
             text.trim()
@@ -101,18 +102,22 @@ pub fn plan_batch(plan: &Plan<'_>, catalog: &Catalog, options: &Options) -> Resu
 #[cfg(test)]
 mod tests {
     use super::parse_size;
-    use crate::model::Amount;
+    use crate::model::{Amount, MassUnit};
 
     #[test]
     fn sizes_read_with_units() {
-        assert_eq!(parse_size("5kg"), Ok(Amount::Grams(5000.0)));
-        assert_eq!(parse_size("800 g"), Ok(Amount::Grams(800.0)));
-        assert_eq!(parse_size("1.5L"), Ok(Amount::Millilitres(1500.0)));
-        assert_eq!(parse_size("750mL"), Ok(Amount::Millilitres(750.0)));
-        assert!(parse_size("5 stone").is_err());
-        assert!(parse_size("-2kg").is_err());
-        assert!(parse_size("0 kg").is_err());
-        assert!(parse_size("kg").is_err());
-        assert!(parse_size("5").is_err(), "a size needs a unit");
+        assert_eq!(parse_size("5kg", None), Ok(Amount::Grams(5000.0)));
+        assert_eq!(parse_size("800 g", None), Ok(Amount::Grams(800.0)));
+        assert_eq!(parse_size("1.5L", None), Ok(Amount::Millilitres(1500.0)));
+        assert_eq!(parse_size("750mL", None), Ok(Amount::Millilitres(750.0)));
+        assert!(parse_size("5 stone", None).is_err());
+        assert!(parse_size("-2kg", None).is_err());
+        assert!(parse_size("0 kg", None).is_err());
+        assert!(parse_size("kg", None).is_err());
+        assert!(parse_size("5", None).is_err(), "a size needs a unit");
+        assert_eq!(
+            parse_size("5", Some(MassUnit::Grams)),
+            Ok(Amount::Grams(5.0))
+        );
     }
 }

@@ -7,6 +7,7 @@ use crate::analysis::{Analysis, Severity};
 
 use super::chart::frozen_share_chart;
 use crate::model::TempUnit;
+use crate::model::units::format_volume;
 
 fn temp_or(unit: TempUnit, t: Option<f64>, otherwise: &str) -> String {
     t.map_or_else(|| otherwise.to_string(), |t| unit.format(t))
@@ -49,19 +50,31 @@ pub fn report_text(a: &Analysis, unit: TempUnit) -> String {
         "  dilute-law estimate {}",
         temp_or(unit, a.dilute_law_freezing_point_c, "-")
     );
-    let _ = writeln!(
-        o,
-        "Serving temperature   {}  ({:.0} % of the water frozen)",
-        temp_or(unit, a.serving_temp_c, "not reached above -60 °C"),
-        100.0 * a.serving_frozen_fraction
-    );
-    for (label, p) in [("Cabinet", &a.cabinet), ("Freezer", &a.freezer)] {
+    if a.style.is_drink() {
+        // For a drink the serving share and the cabinet mean nothing: what the
+        // freezer does to it is what a distiller asks.
         let _ = writeln!(
             o,
-            "{label} {:<14}{:.0} % of the water frozen",
-            unit.format(p.temp_c),
-            100.0 * p.frozen_fraction
+            "Freezer {:<14}{} ({:.1} % of the water as ice)",
+            unit.format(a.freezer.temp_c),
+            a.freezer_behaviour.words(),
+            100.0 * a.freezer.frozen_fraction
         );
+    } else {
+        let _ = writeln!(
+            o,
+            "Serving temperature   {}  ({:.0} % of the water frozen)",
+            temp_or(unit, a.serving_temp_c, "not reached above -60 °C"),
+            100.0 * a.serving_frozen_fraction
+        );
+        for (label, p) in [("Cabinet", &a.cabinet), ("Freezer", &a.freezer)] {
+            let _ = writeln!(
+                o,
+                "{label} {:<14}{:.0} % of the water frozen",
+                unit.format(p.temp_c),
+                100.0 * p.frozen_fraction
+            );
+        }
     }
     for p in &a.at {
         let _ = writeln!(
@@ -79,12 +92,20 @@ pub fn report_text(a: &Analysis, unit: TempUnit) -> String {
     if a.composition.ethanol_pct > 0.0 {
         let _ = writeln!(
             o,
-            "Alcohol               {:.1} % vol at 20 °C ({:.2} % by mass)",
-            a.abv_pct, c.ethanol_pct
+            "Alcohol               {:.1} % vol at 20 °C ({:.2} % by mass), US proof {:.1}",
+            a.abv_pct,
+            c.ethanol_pct,
+            2.0 * a.abv_pct
         );
     }
     if a.style.is_drink() {
         let _ = writeln!(o, "Sugars                {:.0} g/L", a.sugar_g_per_l);
+        let _ = writeln!(
+            o,
+            "Volume at 20 °C       {}  (mass {:.0} g)",
+            format_volume(a.volume_ml),
+            a.mass_g
+        );
     }
     let _ = writeln!(o, "\nComposition (mass %)");
     let rows = [

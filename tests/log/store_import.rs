@@ -34,7 +34,7 @@ fn template(store: &mut Store) -> Batch {
         &Plan {
             recipe: &recipe,
             recipe_text: text,
-            size: parse_size("4kg").unwrap(),
+            size: parse_size("4kg", None).unwrap(),
             operator: "Mara Quill",
             lots: &[],
             note: Some("template"),

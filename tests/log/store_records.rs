@@ -32,7 +32,7 @@ fn planned(file: &str, size: &str, day: u32, lot: &str, note: &str) -> NewBatch 
         &Plan {
             recipe: &recipe,
             recipe_text: text,
-            size: parse_size(size).unwrap(),
+            size: parse_size(size, None).unwrap(),
             operator: "Mara Quill",
             lots: if lot.is_empty() { &[] } else { &lots },
             note: (!note.is_empty()).then_some(note),

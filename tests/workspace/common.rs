@@ -81,3 +81,44 @@ pub fn draw(state: &State, width: u16, height: u16) -> String {
     }
     out
 }
+
+/// A blackcurrant liqueur from the invented Gullrock distillery, by volume where
+/// a distiller measures by volume.
+pub fn gullrock_blackcurrant() -> Recipe {
+    Recipe {
+        name: "Gullrock blackcurrant".into(),
+        style: Style::Liqueur,
+        notes: "Still house batch sheet".into(),
+        serving_frozen_fraction: None,
+        solutes: Vec::new(),
+        ingredients: Vec::new(),
+        lines: vec![
+            Line {
+                ingredient: "spirit-96-vol".into(),
+                amount: Amount::Millilitres(2600.0),
+            },
+            Line {
+                ingredient: "sucrose".into(),
+                amount: Amount::Grams(3000.0),
+            },
+            Line {
+                ingredient: "water".into(),
+                amount: Amount::Grams(4600.0),
+            },
+        ],
+    }
+}
+
+/// A state holding the blackcurrant liqueur.
+pub fn liqueur_state() -> State {
+    let mut state = State::new(false);
+    update(
+        &mut state,
+        Action::RecipeLoaded {
+            recipe: gullrock_blackcurrant(),
+            source: RecipeSource::New,
+        },
+    );
+    state.message = None;
+    state
+}

@@ -303,3 +303,82 @@ fn gelu_edit_saves_back_to_the_file_keeping_its_comments() {
     let (alternate, cursor_hidden) = s.restored();
     assert!(!alternate && !cursor_hidden);
 }
+
+#[test]
+fn a_distiller_batches_a_liqueur_in_litres_and_reads_its_freezer_behaviour() {
+    let dir = match tempfile::tempdir() {
+        Ok(d) => d,
+        Err(e) => panic!("tempdir: {e}"),
+    };
+    let file = dir.path().join("gullrock-blackcurrant.toml");
+    let text = "# Gullrock still house\nname = \"Gullrock blackcurrant\"\nstyle = \"liqueur\"\n\n[[line]]\ningredient = \"spirit-96-vol\"\nml = 2600\n\n[[line]]\ningredient = \"sucrose\"\ng = 3000\n\n[[line]]\ningredient = \"water\"\ng = 4600\n";
+    if let Err(e) = std::fs::write(&file, text) {
+        panic!("{e}");
+    }
+    let db = dir.path().join("log.db");
+    let edit = std::path::Path::new("edit");
+    let mut s = Session::start_with(&db, &[edit, &file], 100, 30, true);
+    let screen = s.wait_for(
+        |t| t.contains("Gullrock blackcurrant") && t.contains("In the freezer"),
+        "the liqueur's key figures",
+    );
+    // A drink shows strength, proof, sugar and volume; no serving temperature.
+    for shown in ["% vol", "US proof", "g/L", "Volume at 20 °C"] {
+        assert!(screen.contains(shown), "{shown}:\n{screen}");
+    }
+    assert!(!screen.contains("Serve at"), "{screen}");
+    let tier = ["no ice", "a few crystals", "slush", "frozen"]
+        .into_iter()
+        .find(|w| {
+            screen
+                .lines()
+                .any(|l| l.contains("In the freezer") && l.contains(w))
+        });
+    let Some(tier) = tier else {
+        panic!("no freezer behaviour on screen:\n{screen}");
+    };
+    // The same words as the report.
+    let report = std::process::Command::new(env!("CARGO_BIN_EXE_gelu"))
+        .args(["report", "--json"])
+        .arg(&file)
+        .output()
+        .map(|o| String::from_utf8_lossy(&o.stdout).into_owned())
+        .unwrap_or_default();
+    let json: serde_json::Value = serde_json::from_str(report.trim()).unwrap_or_default();
+    assert_eq!(
+        json["freezer_behaviour"]
+            .as_str()
+            .map(|w| w.replace('-', " ")),
+        Some(tier.to_string())
+    );
+
+    // Batch 50 L of it: the form offers litres, and litres are taken.
+    s.keys("b");
+    let form = s.wait_for(|t| t.contains("New batch of"), "the batch form");
+    assert!(
+        form.contains(" L"),
+        "the size is offered in litres:\n{form}"
+    );
+    s.keys("\x15"); // Ctrl-U clears the field
+    s.type_slowly("50 L");
+    s.keys(TAB);
+    s.type_slowly("Ada");
+    s.keys(ENTER);
+    s.wait_for(|t| t.contains("Recorded batch"), "the batch to be recorded");
+    s.keys(ESC);
+    // The recipe itself was not changed, so q leaves at once.
+    s.keys("q");
+    s.wait_exit();
+    let shown = std::process::Command::new(env!("CARGO_BIN_EXE_gelu"))
+        .arg("--db")
+        .arg(&db)
+        .args(["batch", "list", "--json"])
+        .env_remove("GELU_DB")
+        .output()
+        .map(|o| String::from_utf8_lossy(&o.stdout).into_owned())
+        .unwrap_or_default();
+    let batch: serde_json::Value =
+        serde_json::from_str(shown.lines().next().unwrap_or("{}")).unwrap_or_default();
+    let volume = batch["prediction"]["volume_ml"].as_f64().unwrap_or(0.0);
+    assert!((volume - 50_000.0).abs() < 1.0, "{volume} mL\n{shown}");
+}

@@ -3,7 +3,7 @@
 //! 1x1 to 200x60 that must not panic, and checks that meaning survives without
 //! colour.
 
-use crate::common::{cmd, draw, loaded_state, type_text};
+use crate::common::{cmd, draw, liqueur_state, loaded_state, type_text};
 use gelu::batch::compare::Comparison;
 use gelu::tui::state::{BatchDetailView, BatchPage, BatchRow, MeasurementRow, State};
 use gelu::tui::{Action, Command, update};
@@ -130,6 +130,7 @@ fn scenes() -> Vec<(&'static str, State)> {
         ("quit_question", quit),
         ("warnings", warnings),
         ("recipe_fahrenheit_ounces", imperial),
+        ("liqueur", liqueur_state()),
     ]
 }
 

@@ -649,7 +649,7 @@ fn starting_a_batch_sends_size_operator_and_lots() {
     let [Effect::StartBatch(req)] = &effects[..] else {
         panic!("expected a batch, got {effects:?}");
     };
-    assert!((req.size_g - 5000.0).abs() < 1e-9);
+    assert_eq!(req.size, Amount::Grams(5000.0));
     assert_eq!(req.operator, "RW");
     assert_eq!(req.lots[0], "MILK-0112");
     assert_eq!(req.lots.len(), 6);
@@ -807,4 +807,41 @@ fn imperial_masses_are_read_in_ounces() {
         panic!("grams expected");
     };
     assert!((g - 453.592_37).abs() < 1e-3);
+}
+
+#[test]
+fn a_liqueur_is_batched_and_scaled_in_litres() {
+    let mut s = crate::common::liqueur_state();
+    let volume_ml = match &s.recipe.analysis {
+        Ok(a) => a.volume_ml,
+        Err(e) => panic!("{e}"),
+    };
+    // The batch form offers the volume at 20 °C, as a distiller batches.
+    cmd(&mut s, Command::StartBatch);
+    let Some(Overlay::Form(f)) = &s.overlay else {
+        panic!("batch form expected");
+    };
+    let offered = f.fields[0].input.value().to_string();
+    assert!(offered.ends_with(" L"), "{offered}");
+    fill(&mut s, &["50 L", "Ada"]);
+    let effects = cmd(&mut s, Command::Confirm);
+    let [Effect::StartBatch(req)] = &effects[..] else {
+        panic!("expected a batch, got {effects:?}");
+    };
+    assert_eq!(req.size, Amount::Millilitres(50_000.0));
+    // Scaling to a volume scales by the volume at 20 °C.
+    let mut s = crate::common::liqueur_state();
+    cmd(&mut s, Command::ScaleRecipe);
+    cmd(&mut s, Command::ClearField);
+    type_text(&mut s, "2 gallons");
+    cmd(&mut s, Command::Confirm);
+    let after = match &s.recipe.analysis {
+        Ok(a) => a.volume_ml,
+        Err(e) => panic!("{e}"),
+    };
+    // NIST Handbook 44: 1 US gallon = 3.785 411 784 L exactly.
+    assert!(
+        (after - 2.0 * 3_785.411_784).abs() < 1e-6 * after,
+        "{after} from {volume_ml}"
+    );
 }

@@ -110,7 +110,7 @@ fn new_batch(
     json: bool,
 ) -> anyhow::Result<ExitCode> {
     let (parsed, text) = read_recipe(recipe)?;
-    let size = parse_size(size)?;
+    let size = parse_size(size, None)?;
     let operator = who(by)?;
     let lots = lots(lot_args)?;
     let planned = plan_batch(

@@ -14,7 +14,6 @@ use crate::batch::plan::{Plan, plan_batch};
 use crate::batch::{BatchFilter, LineRef};
 use crate::catalog::Catalog;
 use crate::clock;
-use crate::model::Amount;
 use crate::model::Recipe;
 use crate::model::time::{DayEnd, parse_date_bound};
 use crate::recipe_file::{parse_recipe, read_recipe, recipe_to_toml};
@@ -344,7 +343,7 @@ fn start_batch(store: &mut Store, request: BatchRequest) -> anyhow::Result<Actio
         &Plan {
             recipe: &request.recipe,
             recipe_text: &text,
-            size: Amount::Grams(request.size_g),
+            size: request.size,
             operator: &request.operator,
             lots: &lots,
             note,

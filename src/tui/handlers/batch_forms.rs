@@ -5,8 +5,13 @@ use super::super::action::Effect;
 use super::super::state::{
     BatchRequest, Field, Form, FormPurpose, Overlay, RecipeSource, Screen, State,
 };
+use crate::analysis::Analysis;
+use crate::batch::plan::parse_size;
 use crate::batch::{Edit, LineRef, MeasurementKind};
-use crate::model::units::{G_PER_OZ, parse_mass, parse_number, parse_temp, trim_number};
+use crate::model::MassUnit;
+use crate::model::units::{
+    G_PER_OZ, format_volume, parse_mass, parse_number, parse_temp, trim_number,
+};
 
 /// Opens the form that records a batch of the recipe in the editor.
 pub fn open_batch_form(state: &mut State) {
@@ -14,13 +19,7 @@ pub fn open_batch_form(state: &mut State) {
         state.warn("The recipe in the editor has nothing to make yet.");
         return;
     };
-    let unit = state.settings.mass_unit;
-    let size = match unit {
-        crate::model::MassUnit::Grams => trim_number(analysis.mass_g.round()),
-        crate::model::MassUnit::Imperial => {
-            format!("{} oz", trim_number(analysis.mass_g / G_PER_OZ))
-        }
-    };
+    let size = size_text(analysis, state.settings.mass_unit);
     let mut fields = vec![
         Field::new("Batch size", size),
         Field::new("Operator", state.settings.operator.clone()),
@@ -41,6 +40,19 @@ pub fn open_batch_form(state: &mut State) {
     check_form(state, &mut form);
     state.screen = Screen::Batches;
     state.overlay = Some(Overlay::Form(form));
+}
+
+/// A recipe's size as offered for editing: a drink by its volume at 20 °C (as a
+/// distiller batches it), a dessert by its mass in the settings' unit.
+pub fn size_text(analysis: &Analysis, unit: MassUnit) -> String {
+    if analysis.style.is_drink() {
+        format_volume(analysis.volume_ml)
+    } else {
+        match unit {
+            MassUnit::Grams => trim_number(analysis.mass_g.round()),
+            MassUnit::Imperial => format!("{} oz", trim_number(analysis.mass_g / G_PER_OZ)),
+        }
+    }
 }
 
 /// The measurement kinds, as typed in the form.
@@ -149,7 +161,9 @@ pub fn check_form(state: &State, form: &mut Form) {
         FormPurpose::Batch => {
             problems.push((
                 0,
-                parse_mass(value(form, 0), Some(state.settings.mass_unit)).err(),
+                parse_size(value(form, 0), Some(state.settings.mass_unit))
+                    .err()
+                    .map(|e| e.0),
             ));
             problems.push((
                 1,
@@ -209,7 +223,8 @@ pub fn submit(state: &mut State, form: &Form) -> Result<Vec<Effect>, String> {
     }
     match &form.purpose {
         FormPurpose::Batch => {
-            let size_g = parse_mass(value(form, 0), Some(state.settings.mass_unit))?;
+            let size =
+                parse_size(value(form, 0), Some(state.settings.mass_unit)).map_err(|e| e.0)?;
             let lots = (2..form.fields.len())
                 .map(|at| value(form, at).to_string())
                 .collect();
@@ -222,7 +237,7 @@ pub fn submit(state: &mut State, form: &Form) -> Result<Vec<Effect>, String> {
             Ok(vec![Effect::StartBatch(BatchRequest {
                 recipe: state.recipe.recipe.clone(),
                 recipe_text,
-                size_g,
+                size,
                 operator: value(form, 1).to_string(),
                 lots,
                 note: String::new(),

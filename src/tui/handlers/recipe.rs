@@ -4,16 +4,18 @@
 
 use tui_input::Input;
 
-use crate::model::{Line, Recipe};
+use crate::batch::plan::parse_size;
+use crate::model::{Amount, Line, Recipe};
 
 use super::super::action::{Command, Effect};
 use super::super::state::{
     Overlay, PickItem, Picker, PickerPurpose, PromptPurpose, RecipeEntry, RecipeSource, Screen,
     State,
 };
+use super::batch_forms::size_text;
 use super::common::{matches_words, move_cursor, prompt};
 use crate::model::units::{
-    G_PER_OZ, amount_edit_text, format_mass, parse_amount, parse_mass, parse_share, trim_number,
+    amount_edit_text, format_mass, format_volume, parse_amount, parse_share, trim_number,
 };
 
 /// Most undo steps kept.
@@ -59,10 +61,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
         }
         Command::ScaleRecipe => match &state.recipe.analysis {
             Ok(a) => {
-                let text = trim_number(match state.settings.mass_unit {
-                    crate::model::MassUnit::Grams => a.mass_g,
-                    crate::model::MassUnit::Imperial => a.mass_g / G_PER_OZ,
-                });
+                let text = size_text(a, state.settings.mass_unit);
                 prompt(
                     state,
                     PromptPurpose::ScaleTotal,
@@ -365,20 +364,25 @@ pub fn accept(
             });
         }
         PromptPurpose::ScaleTotal => {
-            let target_g = parse_mass(text, Some(unit))?;
-            let current_g = state
-                .recipe
-                .analysis
-                .as_ref()
-                .map(|a| a.mass_g)
-                .map_err(|_| "there is nothing to scale".to_string())?;
-            let factor = target_g / current_g;
+            // A mass scales by mass; a volume (a distiller's litres) by the volume at 20 °C.
+            let target = parse_size(text, Some(unit)).map_err(|e| e.0)?;
+            let (current, target_text) = {
+                let a = state
+                    .recipe
+                    .analysis
+                    .as_ref()
+                    .map_err(|_| "there is nothing to scale".to_string())?;
+                match target {
+                    Amount::Grams(g) => (g / a.mass_g, format_mass(g, unit)),
+                    Amount::Millilitres(ml) => (ml / a.volume_ml, format_volume(ml)),
+                }
+            };
+            let factor = current;
+            if !(factor.is_finite() && factor > 0.0) {
+                return Err("there is nothing to scale".into());
+            }
             change(state, |r| *r = r.scaled(factor));
-            state.tell(format!(
-                "Scaled by {:.3} to {}.",
-                factor,
-                format_mass(target_g, unit)
-            ));
+            state.tell(format!("Scaled by {factor:.3} to {target_text}."));
         }
         PromptPurpose::ServingTarget => {
             let target = if text.trim().is_empty() {

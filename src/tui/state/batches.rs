@@ -3,7 +3,7 @@
 
 use crate::batch::compare::Comparison;
 use crate::batch::{BatchCursor, MeasurementKind};
-use crate::model::Recipe;
+use crate::model::{Amount, Recipe};
 
 /// What the batch log shows.
 #[derive(Debug, Clone, PartialEq, Default)]
@@ -89,8 +89,8 @@ pub struct BatchRequest {
     pub recipe: Recipe,
     /// Its TOML text as stored, when the editor holds it unchanged.
     pub recipe_text: Option<String>,
-    /// Batch size (g).
-    pub size_g: f64,
+    /// Batch size: a mass, or a volume at 20 °C.
+    pub size: Amount,
     /// Who makes it.
     pub operator: String,
     /// Lot of each line, in line order (may be empty).

@@ -15,7 +15,7 @@ use crate::analysis::{Analysis, Severity};
 use super::super::state::State;
 use super::fit;
 use super::theme::{ADVICE_MARK, CAUTION_MARK, CURSOR_MARK, NOTE_MARK, PROBLEM_MARK, Theme};
-use crate::model::units::{format_amount, format_mass};
+use crate::model::units::{format_amount, format_mass, format_volume};
 
 /// Coldest temperature the chart shows (°C).
 pub const CHART_MIN_C: f64 = -30.0;
@@ -120,82 +120,156 @@ fn figure<'a>(theme: Theme, label: &str, value: String, width: u16) -> Line<'a> 
 fn render_figures(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
     let block = Block::bordered().title(Span::styled(" Key figures ", theme.title()));
     let width = area.width;
-    let t = state.settings.temp_unit;
     let lines = match &state.recipe.analysis {
-        Ok(a) => {
-            let c = &a.composition;
-            let pct = |x: f64| format!("{x:.1} %");
-            vec![
-                figure(
-                    theme,
-                    "Freezing point",
-                    t.format_opt(a.freezing_point_c),
-                    width,
-                ),
-                figure(
-                    theme,
-                    &format!(
-                        "Serve at ({:.0} % frozen)",
-                        100.0 * a.serving_frozen_fraction
-                    ),
-                    t.format_opt(a.serving_temp_c),
-                    width,
-                ),
-                figure(
-                    theme,
-                    &format!("Frozen, cabinet {}", t.format(a.cabinet.temp_c)),
-                    pct(100.0 * a.cabinet.frozen_fraction),
-                    width,
-                ),
-                figure(
-                    theme,
-                    &format!("Frozen, freezer {}", t.format(a.freezer.temp_c)),
-                    pct(100.0 * a.freezer.frozen_fraction),
-                    width,
-                ),
-                figure(
-                    theme,
-                    "Sweetness (sucrose = 100)",
-                    format!("{:.1}", a.sweetness),
-                    width,
-                ),
-                figure(theme, "Total solids", pct(c.total_solids_pct), width),
-                figure(theme, "Fat", pct(c.fat_pct), width),
-                figure(theme, "MSNF", pct(c.msnf_pct), width),
-                figure(theme, "Sugars", pct(c.sugars_pct), width),
-                figure(theme, "ABV", format!("{:.1} % vol", a.abv_pct), width),
-                figure(
-                    theme,
-                    "Dilute-law freezing point",
-                    t.format_opt(a.dilute_law_freezing_point_c),
-                    width,
-                ),
-                figure(theme, "Water", pct(c.water_pct), width),
-                figure(theme, "Protein", pct(c.protein_pct), width),
-                figure(
-                    theme,
-                    "Sugars per litre",
-                    format!("{:.0} g/L", a.sugar_g_per_l),
-                    width,
-                ),
-                figure(
-                    theme,
-                    "Mass, volume",
-                    format!(
-                        "{}, {:.2} L",
-                        format_mass(a.mass_g, state.settings.mass_unit),
-                        a.volume_ml / 1000.0
-                    ),
-                    width,
-                ),
-            ]
-        }
+        Ok(a) if a.style.is_drink() => drink_figures(state, theme, a, width),
+        Ok(a) => dessert_figures(state, theme, a, width),
         Err(reason) => vec![Line::from(reason.clone())],
     };
     frame.render_widget(
         Paragraph::new(lines).wrap(Wrap { trim: true }).block(block),
         area,
     );
+}
+
+/// A frozen dessert's key figures, most asked-for first (the first ten fit 80x24).
+fn dessert_figures<'a>(state: &State, theme: Theme, a: &Analysis, width: u16) -> Vec<Line<'a>> {
+    let t = state.settings.temp_unit;
+    let c = &a.composition;
+    let pct = |x: f64| format!("{x:.1} %");
+    vec![
+        figure(
+            theme,
+            "Freezing point",
+            t.format_opt(a.freezing_point_c),
+            width,
+        ),
+        figure(
+            theme,
+            &format!(
+                "Serve at ({:.0} % frozen)",
+                100.0 * a.serving_frozen_fraction
+            ),
+            t.format_opt(a.serving_temp_c),
+            width,
+        ),
+        figure(
+            theme,
+            &format!("Frozen, cabinet {}", t.format(a.cabinet.temp_c)),
+            pct(100.0 * a.cabinet.frozen_fraction),
+            width,
+        ),
+        figure(
+            theme,
+            &format!("Frozen, freezer {}", t.format(a.freezer.temp_c)),
+            pct(100.0 * a.freezer.frozen_fraction),
+            width,
+        ),
+        figure(
+            theme,
+            "Sweetness (sucrose = 100)",
+            format!("{:.1}", a.sweetness),
+            width,
+        ),
+        figure(theme, "Total solids", pct(c.total_solids_pct), width),
+        figure(theme, "Fat", pct(c.fat_pct), width),
+        figure(theme, "MSNF", pct(c.msnf_pct), width),
+        figure(theme, "Sugars", pct(c.sugars_pct), width),
+        figure(theme, "ABV", format!("{:.1} % vol", a.abv_pct), width),
+        figure(
+            theme,
+            "Dilute-law freezing point",
+            t.format_opt(a.dilute_law_freezing_point_c),
+            width,
+        ),
+        figure(
+            theme,
+            "Classic-method freezing point",
+            if a.classic_applies {
+                t.format_opt(a.classic_freezing_point_c)
+            } else {
+                "n/a (see notes)".into()
+            },
+            width,
+        ),
+        figure(theme, "Water", pct(c.water_pct), width),
+        figure(theme, "Protein", pct(c.protein_pct), width),
+        figure(
+            theme,
+            "Mass, volume",
+            format!(
+                "{}, {}",
+                format_mass(a.mass_g, state.settings.mass_unit),
+                format_volume(a.volume_ml)
+            ),
+            width,
+        ),
+    ]
+}
+
+/// A liqueur's or spirit's key figures: what a distiller and a label law ask
+/// (volume, strength, sugar) and what the freezer does to it. The serving
+/// temperature and the cabinet mean nothing for a drink and are not shown.
+fn drink_figures<'a>(state: &State, theme: Theme, a: &Analysis, width: u16) -> Vec<Line<'a>> {
+    let t = state.settings.temp_unit;
+    let c = &a.composition;
+    let pct = |x: f64| format!("{x:.1} %");
+    vec![
+        figure(theme, "Volume at 20 °C", format_volume(a.volume_ml), width),
+        figure(
+            theme,
+            "ABV (20 °C)",
+            format!("{:.2} % vol", a.abv_pct),
+            width,
+        ),
+        figure(theme, "US proof", format!("{:.1}", 2.0 * a.abv_pct), width),
+        figure(theme, "Sugar", format!("{:.0} g/L", a.sugar_g_per_l), width),
+        figure(
+            theme,
+            "Mass",
+            format_mass(a.mass_g, state.settings.mass_unit),
+            width,
+        ),
+        figure(
+            theme,
+            &format!("In the freezer, {}", t.format(a.freezer.temp_c)),
+            a.freezer_behaviour.words().to_string(),
+            width,
+        ),
+        figure(
+            theme,
+            "Its water as ice there",
+            pct(100.0 * a.freezer.frozen_fraction),
+            width,
+        ),
+        figure(
+            theme,
+            "Freezing point",
+            t.format_opt(a.freezing_point_c),
+            width,
+        ),
+        figure(
+            theme,
+            "Sweetness (sucrose = 100)",
+            format!("{:.1}", a.sweetness),
+            width,
+        ),
+        figure(theme, "Ethanol (mass)", pct(c.ethanol_pct), width),
+        figure(theme, "Total solids", pct(c.total_solids_pct), width),
+        figure(theme, "Fat", pct(c.fat_pct), width),
+        figure(
+            theme,
+            "Dilute-law freezing point",
+            t.format_opt(a.dilute_law_freezing_point_c),
+            width,
+        ),
+        figure(
+            theme,
+            "Classic-method estimate",
+            "n/a for drinks".into(),
+            width,
+        ),
+        figure(theme, "Water", pct(c.water_pct), width),
+    ]
 }
 
 /// The warnings and cautions as (mark, style, text): problems first, then the
@@ -323,12 +397,17 @@ pub fn wrap_words(text: &str, width: usize) -> Vec<String> {
 }
 
 /// The marks on the chart: (label, temperature °C, marker, marker symbol).
+/// The temperatures marked on the chart: for a dessert where it is served, the
+/// cabinet and the freezer; for a drink only the freezer (serving share and
+/// cabinet mean nothing for it).
 fn marks(a: &Analysis) -> Vec<(&'static str, f64, Marker, &'static str)> {
     let mut out = Vec::new();
-    if let Some(t) = a.serving_temp_c {
-        out.push(("serve", t, Marker::Dot, "•"));
+    if !a.style.is_drink() {
+        if let Some(t) = a.serving_temp_c {
+            out.push(("serve", t, Marker::Dot, "•"));
+        }
+        out.push(("cabinet", a.cabinet.temp_c, Marker::Bar, "▄"));
     }
-    out.push(("cabinet", a.cabinet.temp_c, Marker::Bar, "▄"));
     out.push(("freezer", a.freezer.temp_c, Marker::Block, "█"));
     out
 }
