@@ -239,3 +239,12 @@ fn a_problem_shows_in_the_status_line_with_a_symbol() {
     let text = draw(&s, 80, 24);
     assert!(text.contains("!! the batch log is locked"));
 }
+
+#[test]
+fn large_amounts_are_never_cut_off() {
+    let mut state = loaded_state();
+    state.recipe.recipe.lines[0].amount = gelu::model::Amount::Grams(999_999_999.0);
+    state.reanalyse();
+    let screen = draw(&state, 80, 24);
+    assert!(screen.contains("1000000.00 kg"), "{screen}");
+}

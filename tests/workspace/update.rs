@@ -845,3 +845,24 @@ fn a_liqueur_is_batched_and_scaled_in_litres() {
         "{after} from {volume_ml}"
     );
 }
+
+#[test]
+fn the_picker_puts_exact_and_whole_word_matches_first() {
+    let first = |query: &str| {
+        let mut s = loaded_state();
+        cmd(&mut s, Command::AddLine);
+        type_text(&mut s, query);
+        match &s.overlay {
+            Some(Overlay::Picker(p)) => p.items.first().map(|i| i.key.clone()),
+            other => panic!("picker expected, got {other:?}"),
+        }
+    };
+    assert_eq!(first("whole milk").as_deref(), Some("whole-milk"));
+    let milk = first("milk");
+    assert!(
+        milk.as_deref()
+            .is_some_and(|id| id != "milk-minerals" && id.contains("milk")),
+        "{milk:?}"
+    );
+    assert_eq!(first("sucrose").as_deref(), Some("sucrose"));
+}

@@ -4,7 +4,6 @@
 use tui_input::Input;
 
 use super::super::action::Command;
-pub use super::super::state::matches_words;
 use super::super::state::{Overlay, PAGE_ROWS, Prompt, PromptPurpose, State};
 
 /// Moves a cursor by a command over `len` rows; returns the new position.

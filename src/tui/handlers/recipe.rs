@@ -5,15 +5,15 @@
 use tui_input::Input;
 
 use crate::batch::plan::parse_size;
-use crate::model::{Amount, Line, Recipe};
+use crate::model::{Amount, Line, Recipe, SoluteKind};
 
 use super::super::action::{Command, Effect};
 use super::super::state::{
     Overlay, PickItem, Picker, PickerPurpose, PromptPurpose, RecipeEntry, RecipeSource, Screen,
-    State,
+    State, search_key,
 };
 use super::batch_forms::size_text;
-use super::common::{matches_words, move_cursor, prompt};
+use super::common::{move_cursor, prompt};
 use crate::model::units::{
     amount_edit_text, format_mass, format_volume, parse_amount, parse_share, trim_number,
 };
@@ -247,42 +247,44 @@ pub fn open_recipe_picker(state: &mut State, entries: Vec<RecipeEntry>) {
 /// Recomputes the picker's items for its search text.
 pub fn refresh_picker(state: &State, picker: &mut Picker) {
     let query = picker.query.value().to_lowercase();
-    let mut items: Vec<(bool, PickItem)> = match &picker.purpose {
+    let mut items: Vec<((bool, (u8, usize), String), PickItem)> = match &picker.purpose {
         PickerPurpose::Ingredient => state
             .catalog
             .ingredients()
             .filter_map(|i| {
-                let hay = format!("{} {}", i.name.to_lowercase(), i.id);
-                matches_words(&hay, &query).then(|| {
-                    let starts = i.name.to_lowercase().starts_with(query.trim())
-                        || i.id.starts_with(query.trim());
-                    (
-                        !starts,
-                        PickItem {
-                            key: i.id.clone(),
-                            label: i.name.clone(),
-                            detail: i.category.as_str().to_string(),
-                        },
-                    )
-                })
+                let rank = search_key(&i.name, &i.id, &query)?;
+                // A pseudo-solute (the salts of milk as one solute) is a modelling
+                // device, never what someone typing "milk" wants: it comes last.
+                let pseudo = state
+                    .catalog
+                    .solute(&i.id)
+                    .is_some_and(|s| s.solute.kind == SoluteKind::MilkMinerals);
+                Some((
+                    (pseudo, rank, i.name.to_lowercase()),
+                    PickItem {
+                        key: i.id.clone(),
+                        label: i.name.clone(),
+                        detail: i.category.as_str().to_string(),
+                    },
+                ))
             })
             .collect(),
         PickerPurpose::Recipe(entries) => entries
             .iter()
-            .filter(|e| matches_words(&e.name.to_lowercase(), &query))
-            .map(|e| {
-                (
-                    false,
+            .filter_map(|e| {
+                let rank = search_key(&e.name, "", &query)?;
+                Some((
+                    (false, rank, e.name.to_lowercase()),
                     PickItem {
                         key: e.name.clone(),
                         label: e.name.clone(),
                         detail: format!("version {}", e.version),
                     },
-                )
+                ))
             })
             .collect(),
     };
-    items.sort_by(|a, b| a.0.cmp(&b.0).then_with(|| a.1.label.cmp(&b.1.label)));
+    items.sort_by(|a, b| a.0.cmp(&b.0));
     picker.items = items.into_iter().map(|(_, item)| item).collect();
     picker.cursor = picker.cursor.min(picker.items.len().saturating_sub(1));
 }

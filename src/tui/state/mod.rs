@@ -14,10 +14,12 @@ use crate::model::{Ingredient, MassUnit, Recipe, Solute, TempUnit};
 mod batches;
 mod context;
 mod overlay;
+mod search;
 
 pub use batches::*;
 pub use context::Context;
 pub use overlay::*;
+pub use search::{search_key, search_rank};
 
 /// The screens, in tab order.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Hash)]
@@ -277,7 +279,7 @@ impl State {
     pub fn refresh_ingredient_matches(&mut self) {
         let query = self.ingredients.filter.to_lowercase();
         let catalog = &self.catalog;
-        let mut rows: Vec<(String, String)> = match self.ingredients.list {
+        let rows: Vec<(String, String)> = match self.ingredients.list {
             CatalogList::Ingredients => catalog
                 .ingredients()
                 .filter(|i| catalog.solute(&i.id).is_none())
@@ -288,8 +290,14 @@ impl State {
                 .map(|s| (s.solute.name.clone(), s.solute.id.clone()))
                 .collect(),
         };
-        rows.retain(|(name, id)| matches_words(&format!("{} {id}", name.to_lowercase()), &query));
-        rows.sort();
+        let mut ranked: Vec<((u8, usize), String, String)> = rows
+            .into_iter()
+            .filter_map(|(name, id)| {
+                search_key(&name, &id, &query).map(|key| (key, name.to_lowercase(), id))
+            })
+            .collect();
+        ranked.sort();
+        let rows: Vec<(String, String)> = ranked.into_iter().map(|(_, n, id)| (n, id)).collect();
         self.ingredients.matches = rows.into_iter().map(|(_, id)| id).collect();
         let len = self.ingredients.matches.len();
         self.ingredients.cursor = self.ingredients.cursor.min(len.saturating_sub(1));
@@ -431,9 +439,4 @@ pub struct RecipeEntry {
     pub name: String,
     /// Newest version number.
     pub version: u32,
-}
-
-/// Whether every word of `query` occurs in `haystack` (both lower-cased by the caller).
-pub fn matches_words(haystack: &str, query: &str) -> bool {
-    query.split_whitespace().all(|w| haystack.contains(w))
 }

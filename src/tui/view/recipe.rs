@@ -41,12 +41,19 @@ fn render_lines(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
     let r = &state.recipe;
     let unit = state.settings.mass_unit;
     let analysis = r.analysis.as_ref().ok();
+    let amounts: Vec<String> = r
+        .recipe
+        .lines
+        .iter()
+        .map(|line| format_amount(line.amount, unit))
+        .collect();
     let rows: Vec<Row> = r
         .recipe
         .lines
         .iter()
+        .zip(&amounts)
         .enumerate()
-        .map(|(k, line)| {
+        .map(|(k, (line, amount))| {
             let name = state.display_name(&line.ingredient);
             let share = analysis
                 .and_then(|a| a.line_mass_g.get(k).map(|g| 100.0 * g / a.mass_g))
@@ -54,16 +61,18 @@ fn render_lines(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
             let mark = if k == r.cursor { CURSOR_MARK } else { "  " };
             Row::new(vec![
                 Cell::from(format!("{mark}{name}")),
-                Cell::from(Line::from(format_amount(line.amount, unit)).right_aligned()),
+                Cell::from(Line::from(amount.clone()).right_aligned()),
                 Cell::from(Line::from(share).right_aligned()),
             ])
         })
         .collect();
-    // Pounds and ounces ("12 lb 13.5 oz") need more room than grams.
-    let amount_w = match unit {
-        crate::model::MassUnit::Grams => 10,
-        crate::model::MassUnit::Imperial => 13,
-    };
+    // The amount column is as wide as its widest amount, so no number is ever cut.
+    let amount_w = amounts
+        .iter()
+        .map(|a| a.chars().count())
+        .max()
+        .unwrap_or(0)
+        .max("Amount".len()) as u16;
     let total = analysis.map_or("-".to_string(), |a| format_mass(a.mass_g, unit));
     let dirty = if r.is_dirty() { " *" } else { "" };
     let title = format!(" {}{dirty} ", r.recipe.name);
