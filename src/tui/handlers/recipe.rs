@@ -244,10 +244,13 @@ pub fn open_recipe_picker(state: &mut State, entries: Vec<RecipeEntry>) {
     state.overlay = Some(Overlay::Picker(picker));
 }
 
+/// How picker items sort: pseudo-solutes last, then by [`search_key`], then by name.
+type PickOrder = (bool, (u8, usize), String);
+
 /// Recomputes the picker's items for its search text.
 pub fn refresh_picker(state: &State, picker: &mut Picker) {
     let query = picker.query.value().to_lowercase();
-    let mut items: Vec<((bool, (u8, usize), String), PickItem)> = match &picker.purpose {
+    let mut items: Vec<(PickOrder, PickItem)> = match &picker.purpose {
         PickerPurpose::Ingredient => state
             .catalog
             .ingredients()
