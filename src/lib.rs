@@ -10,9 +10,10 @@
 //!   freezing curve, ethanol-water tables).
 //! - [`catalog`]: the built-in solutes and ingredients, embedded at build time.
 //! - [`analysis`]: recipe -> every figure the user sees, with warnings and cautions.
+//! - [`balance`]: recipe + targets + line rules + objective -> new amounts (pure; uses analysis).
 //! - [`tui`]: the terminal workspace (recipe editor, ingredients, batch log, settings).
 //!
-//! `model`, `thermo`, `catalog` and `analysis` are pure: no files, no clock, no
+//! `model`, `thermo`, `catalog`, `analysis` and `balance` are pure: no files, no clock, no
 //! terminal, no SQL.
 //!
 //! ```
@@ -31,6 +32,7 @@
 #![allow(clippy::neg_cmp_op_on_partial_ord)]
 
 pub mod analysis;
+pub mod balance;
 pub mod catalog;
 pub mod cli;
 pub mod model;
