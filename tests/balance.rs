@@ -924,7 +924,7 @@ fn assert_rules_hold(r: &Recipe, request: &Request, b: &Balance) {
 }
 
 proptest! {
-    #![proptest_config(ProptestConfig::with_cases(24))]
+    #![proptest_config(ProptestConfig::with_cases(32))]
 
     #[test]
     fn a_balanced_answer_meets_every_target_in_a_fresh_analysis((r, request) in mix().prop_flat_map(request_for)) {
