@@ -241,3 +241,16 @@ fn advice(problem: &Problem, member: usize, found: Option<f64>) -> String {
         }
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::round_away;
+
+    #[test]
+    fn advice_rounds_away_from_the_value_asked() {
+        assert_eq!(round_away(3.2549, 20.0, 1), "3.2");
+        assert_eq!(round_away(41.8111, 40.0, 1), "41.9");
+        assert_eq!(round_away(-2.4449, -3.0, 2), "-2.44");
+        assert_eq!(round_away(-3.561, -3.0, 2), "-3.57");
+    }
+}

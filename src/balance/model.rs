@@ -248,3 +248,55 @@ impl VolumeEvaluator<'_, '_> {
         (v, grad)
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn sums_over_lines_give_the_analysis_of_the_whole_mix() {
+        let line = |id: &str, g: f64| Line {
+            ingredient: id.into(),
+            amount: Amount::Grams(g),
+        };
+        let recipe = Recipe {
+            lines: vec![
+                line("whole-milk", 500.0),
+                line("heavy-cream", 200.0),
+                line("invert-syrup", 80.0),
+                line("spirit-40", 60.0),
+                line("cocoa-powder", 20.0),
+            ],
+            ..Recipe::default()
+        };
+        let catalog = Catalog::builtin();
+        let model = Model::new(&recipe, catalog, None).unwrap();
+        let x: Vec<f64> = model.lines.iter().map(|l| l.before_g).collect();
+        let a = analyze(&recipe, catalog, &Options::default()).unwrap();
+        let mass: f64 = x.iter().sum();
+        let share = |f: Figure| {
+            let n = model.share_numerator(&f).unwrap();
+            100.0 * n.iter().zip(&x).map(|(n, x)| n * x).sum::<f64>() / mass
+        };
+        let c = &a.composition;
+        for (f, v) in [
+            (Figure::FatPct, c.fat_pct),
+            (Figure::MsnfPct, c.msnf_pct),
+            (Figure::SugarsPct, c.sugars_pct),
+            (Figure::TotalSolidsPct, c.total_solids_pct),
+            (Figure::EthanolPct, c.ethanol_pct),
+            (Figure::OtherSolidsPct, c.other_solids_pct),
+            (Figure::Sweetness, a.sweetness),
+            (
+                Figure::SolutePct("fructose".into()),
+                a.solutes_pct["fructose"],
+            ),
+        ] {
+            assert!((share(f.clone()) - v).abs() < 1e-9, "{}", f.name());
+        }
+        let volume = model.volume_evaluator().volume_ml(&x);
+        assert!((volume - a.volume_ml).abs() < 1e-9 * volume);
+        let sugar: f64 = model.sugar_per_g().iter().zip(&x).map(|(s, x)| s * x).sum();
+        assert!((1000.0 * sugar / volume - a.sugar_g_per_l).abs() < 1e-9);
+    }
+}

@@ -270,3 +270,117 @@ impl RowBuilder<'_, '_> {
             .collect()
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::analysis::{Options, analyze};
+    use crate::catalog::Catalog;
+    use crate::model::{Amount, Line, Recipe};
+
+    fn gelato() -> Recipe {
+        let line = |id: &str, g: f64| Line {
+            ingredient: id.into(),
+            amount: Amount::Grams(g),
+        };
+        Recipe {
+            lines: vec![
+                line("whole-milk", 650.0),
+                line("heavy-cream", 120.0),
+                line("skim-milk-powder", 40.0),
+                line("sucrose", 160.0),
+                line("dextrose-monohydrate", 25.0),
+                line("spirit-40", 20.0),
+            ],
+            ..Recipe::default()
+        }
+    }
+
+    /// g(x, θ) changes sign exactly where the full analysis puts the figure.
+    fn crosses_at(figure: Figure, value: f64, step: f64) {
+        let recipe = gelato();
+        let model = Model::new(&recipe, Catalog::builtin(), None).unwrap();
+        let x: Vec<f64> = model.lines.iter().map(|l| l.before_g).collect();
+        let targets = vec![Target::value(figure, value)];
+        let (v, grad) = model.volume_evaluator().volume_and_gradient(&x);
+        let lin = Lin {
+            offset: v - grad.iter().zip(&x).map(|(g, x)| g * x).sum::<f64>(),
+            grad,
+        };
+        let b = RowBuilder {
+            model: &model,
+            targets: &targets,
+            lin: &lin,
+        };
+        let g = |theta: f64| {
+            b.rows(
+                Soft::Target {
+                    index: 0,
+                    side: Side::Value,
+                },
+                theta,
+            )[0]
+            .value(&x)
+        };
+        assert!(g(value - step) > 0.0, "g above zero below the value");
+        assert!(g(value + step) < 0.0, "g below zero above the value");
+        // Linear interpolation of g between the two puts the root at the value.
+        let (a, c) = (g(value - step), g(value + step));
+        let root = value - step + 2.0 * step * a / (a - c);
+        assert!((root - value).abs() < 0.02 * step, "{root} vs {value}");
+    }
+
+    #[test]
+    fn each_row_changes_sign_where_the_analysis_puts_its_figure() {
+        let a = analyze(
+            &gelato(),
+            Catalog::builtin(),
+            &Options {
+                at_temps_c: vec![-13.0],
+                ..Options::default()
+            },
+        )
+        .unwrap();
+        crosses_at(Figure::FreezingPointC, a.freezing_point_c.unwrap(), 0.01);
+        crosses_at(Figure::ServingTempC, a.serving_temp_c.unwrap(), 0.01);
+        crosses_at(
+            Figure::FrozenAt { temp_c: -13.0 },
+            a.at[0].frozen_fraction,
+            1e-4,
+        );
+        crosses_at(Figure::AbvPct, a.abv_pct, 1e-3);
+        crosses_at(Figure::SugarGPerL, a.sugar_g_per_l, 0.01);
+        crosses_at(Figure::VolumeMl, a.volume_ml, 0.1);
+        crosses_at(Figure::FatPct, a.composition.fat_pct, 1e-3);
+        crosses_at(Figure::MsnfPct, a.composition.msnf_pct, 1e-3);
+        crosses_at(Figure::Sweetness, a.sweetness, 1e-3);
+        crosses_at(
+            Figure::SolutePct("glucose".into()),
+            a.solutes_pct["glucose"],
+            1e-4,
+        );
+    }
+
+    #[test]
+    fn a_high_temperature_bound_at_zero_always_holds() {
+        let recipe = gelato();
+        let model = Model::new(&recipe, Catalog::builtin(), None).unwrap();
+        let targets = vec![Target::at_most(Figure::FreezingPointC, 0.0)];
+        let lin = Lin::default();
+        let b = RowBuilder {
+            model: &model,
+            targets: &targets,
+            lin: &lin,
+        };
+        assert!(
+            b.rows(
+                Soft::Target {
+                    index: 0,
+                    side: Side::High
+                },
+                0.0
+            )
+            .is_empty()
+        );
+    }
+}

@@ -358,3 +358,72 @@ pub(crate) fn solve(p: &Program) -> Outcome {
         reduced_per_g,
     })
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn row(coef: Vec<f64>, constant: f64, sense: Sense) -> ProgramRow {
+        ProgramRow {
+            row: Row {
+                coef,
+                constant,
+                sense,
+            },
+            elastic: None,
+        }
+    }
+
+    #[test]
+    fn a_small_lp_and_its_multipliers() {
+        // min 2a + 3b, a + b = 10, a <= 4: a = 4, b = 6, cost 26. Raising the
+        // total by one costs 3 (b comes in); raising a's limit saves 1.
+        let rows = [
+            row(vec![1.0, 1.0], -10.0, Sense::Eq),
+            row(vec![1.0, 0.0], -4.0, Sense::Le),
+        ];
+        let goal = Goal::Linear {
+            per_g: vec![2.0, 3.0],
+        };
+        let p = Program {
+            n: 2,
+            mass_ref_g: 10.0,
+            floor_g: 0.01,
+            rows: &rows,
+            goal: &goal,
+        };
+        let Outcome::Solved(s) = solve(&p) else {
+            panic!("solves");
+        };
+        assert!((s.x_g[0] - 4.0).abs() < 1e-6 && (s.x_g[1] - 6.0).abs() < 1e-6);
+        // Row values are coef·x + constant; the constant is −θ, so ∂/∂θ = −1.
+        assert!((-s.dual[0] - 3.0).abs() < 1e-6, "{:?}", s.dual);
+        assert!((-s.dual[1] + 1.0).abs() < 1e-6, "{:?}", s.dual);
+    }
+
+    #[test]
+    fn violations_are_measured_per_gram_of_batch() {
+        // a ≥ 0.8 (a + b) with a ≤ 0.5 (a + b): the least violation is 0.15 of
+        // the batch on each row whatever the batch weighs.
+        let mut rows = vec![
+            row(vec![0.2, -0.8], 0.0, Sense::Ge),
+            row(vec![0.5, -0.5], 0.0, Sense::Le),
+        ];
+        for r in &mut rows {
+            r.elastic = Some(0.01);
+        }
+        let p = Program {
+            n: 2,
+            mass_ref_g: 1000.0,
+            floor_g: 1.0,
+            rows: &rows,
+            goal: &Goal::Feasibility,
+        };
+        let Outcome::Solved(s) = solve(&p) else {
+            panic!("solves");
+        };
+        let total: f64 = s.violation_per_g.iter().sum();
+        assert!((total - 0.3).abs() < 1e-6, "{:?}", s.violation_per_g);
+        assert!((s.total_violation - 30.0).abs() < 1e-4);
+    }
+}
