@@ -32,7 +32,7 @@
 //! (`N·x − low/100·Σx ≥ 0`). The freezing figures are linear too at a fixed
 //! temperature: by the ZSR rule the unfrozen water at T is a sum over lines, so
 //! "freezing point at least −3 °C" is "unfrozen water at −3 °C at most the
-//! water", exactly (see [`rows`](self) for every form). Only the volume (and so
+//! water", exactly (the private `rows` module lists every form). Only the volume (and so
 //! ABV, g/L and a volume target) is not linear, through the ethanol-water
 //! contraction of OIML R 22; it is replaced by its tangent (finite differences
 //! of the analysis's own volume) and the programme is solved again at the new
