@@ -944,6 +944,21 @@ proptest! {
     }
 
     #[test]
+    fn fat_beyond_whole_milk_is_always_a_conflict_naming_fat(
+        milk in 10.0f64..2000.0,
+        sugar in 0.0f64..500.0,
+        fat in 3.3f64..60.0,
+    ) {
+        // Whole milk holds 3.25 % fat (USDA SR Legacy 01077), sucrose none.
+        let r = recipe("Milk ice", vec![line("whole-milk", milk), line("sucrose", sugar)]);
+        let request = Request::with_targets(vec![Target::at_least(Figure::FatPct, fat)]);
+        let b = balance(&r, Catalog::builtin(), &request).unwrap();
+        prop_assert_eq!(b.status, Status::Infeasible);
+        prop_assert_eq!(&b.conflicts[0].targets, &vec!["fat_pct".to_string()]);
+        prop_assert!(b.conflicts[0].relax[0].contains("lower the minimum for fat to 3.2 %"), "{:?}", b.conflicts);
+    }
+
+    #[test]
     fn scaling_the_mass_target_scales_the_answer(r in mix(), k in 0.2f64..5.0) {
         let a = analyze(&r, Catalog::builtin(), &Options { at_temps_c: vec![-12.0], ..Options::default() }).unwrap();
         let fat = a.composition.fat_pct;

@@ -177,12 +177,12 @@ impl Request {
             }
         }
         if self.objective == Objective::Cost {
-            let mut missing: Vec<String> = line_ids
-                .iter()
-                .filter(|id| !self.prices_per_kg.contains_key(**id))
-                .map(|s| s.to_string())
-                .collect();
-            missing.dedup();
+            let mut missing: Vec<String> = Vec::new();
+            for id in &line_ids {
+                if !self.prices_per_kg.contains_key(*id) && !missing.iter().any(|m| m == id) {
+                    missing.push(id.to_string());
+                }
+            }
             if !missing.is_empty() {
                 return Err(BalanceError::MissingPrices(missing));
             }
