@@ -38,8 +38,10 @@
 //! of the analysis's own volume) and the programme is solved again at the new
 //! point until the tangent agrees with the full volume to 1e-9, a sequential
 //! linear/quadratic programme. The volume is homogeneous of degree one and
-//! within a few per cent of linear, so two to four rounds suffice; no trust
-//! region has been needed.
+//! within a few per cent of linear, so the rounds converge fast (two and three
+//! rounds on the dilution and liqueur tests); no trust region has been needed,
+//! and if the tangent has not settled after 30 rounds balancing says so
+//! ([`BalanceError::NotConverged`]) rather than answer.
 //!
 //! Each programme is solved by the Clarabel interior-point solver:
 //! [`Objective::Nearest`] is a quadratic programme, the least sum of squared
