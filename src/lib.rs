@@ -15,6 +15,7 @@
 //! - [`report`]: an analysis -> text (with a character chart) or JSON.
 //! - [`batch`]: the batch domain: records, planning, amendments, measured against
 //!   predicted, JSON and CSV forms.
+//! - [`balance`]: recipe + targets + line rules + objective -> new amounts.
 //! - [`measure`]: measured points -> a characterised solute; predicted against
 //!   measured over batches; explicit calibration.
 //!
@@ -42,6 +43,7 @@
 #![allow(clippy::neg_cmp_op_on_partial_ord)]
 
 pub mod analysis;
+pub mod balance;
 pub mod batch;
 pub mod catalog;
 pub mod cli;

@@ -144,8 +144,9 @@ impl Serum<'_> {
     }
 
     /// Unfrozen water by ZSR alone (g), without the glass limit or the cap at
-    /// the water there is.
-    fn zsr_water_g(&self, temp_c: f64) -> f64 {
+    /// the water there is; infinite at or above 0 °C. At a fixed temperature it is
+    /// linear in the amounts of solute, which balancing relies on.
+    pub fn zsr_water_g(&self, temp_c: f64) -> f64 {
         self.solutes
             .iter()
             .filter(|s| s.moles > 0.0)

@@ -2,6 +2,7 @@
 //! standards, property tests, the catalog, and the recipe reader's errors.
 //! One test binary for all of them, so `cargo test` links few binaries.
 
+mod balance;
 mod catalog;
 mod invalid_recipes;
 mod measure;
