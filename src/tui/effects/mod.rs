@@ -261,15 +261,7 @@ fn loaded_file(path: &Path, recipe: Recipe, text: String) -> Action {
 
 fn save_file(path: &Path, original: Option<&str>, recipe: Recipe) -> anyhow::Result<Action> {
     let out = crate::recipe_file::rewrite(path, original, &recipe);
-    let tmp = path.with_extension("toml.saving");
-    std::fs::write(&tmp, &out.text)
-        .with_context(|| format!("could not write {}; the file is unchanged", tmp.display()))?;
-    std::fs::rename(&tmp, path).with_context(|| {
-        format!(
-            "could not replace {}; the file is unchanged",
-            path.display()
-        )
-    })?;
+    crate::recipe_file::save_text(path, crate::recipe_file::Expect::Anything, &out.text)?;
     let how = if out.kept_layout {
         "comments and layout kept"
     } else {
