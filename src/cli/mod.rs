@@ -5,6 +5,7 @@
 mod batch;
 mod characterise;
 mod db;
+pub mod own;
 mod report;
 
 use std::path::PathBuf;
@@ -50,7 +51,7 @@ fn workspace(db: Option<PathBuf>, file: Option<PathBuf>) -> anyhow::Result<ExitC
 pub fn run() -> ExitCode {
     let cli = Cli::parse();
     let outcome = match cli.command {
-        Some(Command::Report(args)) => report::run(&args),
+        Some(Command::Report(args)) => report::run(&args, cli.db.as_deref()),
         Some(Command::Characterise(args)) => characterise::run(&args),
         Some(Command::Batch(args)) => batch::run(&args, cli.db.as_deref()),
         Some(Command::Db(args)) => db::run(&args, cli.db.as_deref()),

@@ -13,6 +13,7 @@
 
 mod append;
 mod edit;
+mod library;
 mod read;
 mod save;
 mod write;
@@ -22,6 +23,7 @@ use std::path::PathBuf;
 
 pub use append::{AppendRefused, append_own_items};
 pub use edit::{Rewritten, rewrite};
+pub use library::{own_item_definition, own_items_in, read_own_items};
 pub use read::{
     parse_recipe, parse_recipe_using, parse_recipe_with, read_recipe, read_recipe_using,
 };

@@ -124,16 +124,19 @@ pub fn parse_recipe_with(
     text: &str,
     catalog: &Catalog,
 ) -> Result<Recipe, RecipeFileError> {
-    parse(path, text, catalog, &OwnItems::default(), false)
+    parse(path, text, catalog, &OwnItems::default(), None)
 }
 
 /// Reads and parses a recipe file that may use the user's own items (`own`,
 /// from the batch log); see [`parse_recipe_using`]. Returns the recipe and the
-/// file's text.
-pub fn read_recipe_using(path: &Path, own: &OwnItems) -> Result<(Recipe, String), RecipeFileError> {
+/// file's text and the library items copied into the recipe.
+pub fn read_recipe_using(
+    path: &Path,
+    own: &OwnItems,
+) -> Result<(Recipe, String, OwnItems), RecipeFileError> {
     let text = read_text(path)?;
-    let recipe = parse_recipe_using(path, &text, own)?;
-    Ok((recipe, text))
+    let (recipe, borrowed) = parse_recipe_using(path, &text, own)?;
+    Ok((recipe, text, borrowed))
 }
 
 /// Parses recipe TOML that may use the user's own solutes and ingredients
@@ -141,13 +144,16 @@ pub fn read_recipe_using(path: &Path, own: &OwnItems) -> Result<(Recipe, String)
 /// own items come first: one of the same id shadows the library's, and a
 /// built-in id shadows both. The library items the recipe uses are copied into
 /// the recipe ([`Recipe::solutes`], [`Recipe::ingredients`]), so that it
-/// analyses, saves and records without the log.
+/// analyses, saves and records without the log; they are also returned, as
+/// what the file's text lacks.
 pub fn parse_recipe_using(
     path: &Path,
     text: &str,
     own: &OwnItems,
-) -> Result<Recipe, RecipeFileError> {
-    parse(path, text, Catalog::builtin(), own, true)
+) -> Result<(Recipe, OwnItems), RecipeFileError> {
+    let mut borrowed = OwnItems::default();
+    let recipe = parse(path, text, Catalog::builtin(), own, Some(&mut borrowed))?;
+    Ok((recipe, borrowed))
 }
 
 /// As [`parse_recipe_using`], but without copying the library items in: the
@@ -157,7 +163,7 @@ pub(super) fn parse_recipe_leaning_on(
     text: &str,
     own: &OwnItems,
 ) -> Result<Recipe, RecipeFileError> {
-    parse(path, text, Catalog::builtin(), own, false)
+    parse(path, text, Catalog::builtin(), own, None)
 }
 
 /// The library items that neither the catalog nor the file define.
@@ -184,7 +190,7 @@ fn parse(
     text: &str,
     catalog: &Catalog,
     own: &OwnItems,
-    adopt: bool,
+    adopted: Option<&mut OwnItems>,
 ) -> Result<Recipe, RecipeFileError> {
     let ctx = Ctx { path, text };
     let doc: RecipeDoc = toml::from_str(text).map_err(|e| {
@@ -295,7 +301,9 @@ fn parse(
         ingredients,
         lines,
     };
-    if adopt && !library.is_empty() {
+    if let Some(adopted) = adopted
+        && !library.is_empty()
+    {
         let file_solute_ids: Vec<String> = recipe
             .ingredients
             .iter()
@@ -308,8 +316,9 @@ fn parse(
                 .map(|l| l.ingredient.as_str())
                 .chain(file_solute_ids.iter().map(String::as_str)),
         );
-        recipe.solutes.extend(used.solutes);
-        recipe.ingredients.extend(used.ingredients);
+        recipe.solutes.extend(used.solutes.iter().cloned());
+        recipe.ingredients.extend(used.ingredients.iter().cloned());
+        *adopted = used;
     }
     Ok(recipe)
 }

@@ -66,6 +66,25 @@ impl Store {
         })
     }
 
+    /// Opens an existing batch log to read only: nothing is created, migrated or
+    /// written, and a log of an older schema is read as it is. `None` when the
+    /// file holds no log yet.
+    pub fn open_read_only(path: &Path) -> Result<Option<Store>> {
+        let (conn, version) = open::connect_read_only(path)?;
+        if version == 0 {
+            return Ok(None);
+        }
+        Ok(Some(Store {
+            conn,
+            path: path.to_path_buf(),
+            migrated: migrate::Migrated {
+                from: version,
+                to: version,
+                backup: None,
+            },
+        }))
+    }
+
     /// Opens the batch log in the platform's data directory, creating the folder.
     pub fn open_default() -> Result<Store> {
         let path = open::default_path()?;

@@ -290,3 +290,96 @@ fn a_batch_goes_from_draft_to_amended() {
     run(&mut s, &mut services, Command::Confirm);
     assert!(s.batches.rows.is_empty());
 }
+
+#[test]
+fn a_file_leaning_on_an_own_item_opens_and_saves_carrying_it() {
+    use gelu::model::{Category, Ingredient};
+    let dir = tempdir();
+    let db = dir.path().join("log.db");
+    // The Quay Kitchen's own syrup, kept in the log (demo numbers).
+    let syrup = Ingredient {
+        id: "quay-fig-syrup".into(),
+        name: "Quay fig syrup".into(),
+        category: Category::Sugar,
+        water_pct: 35.0,
+        fat_pct: 0.0,
+        protein_pct: 0.0,
+        other_solids_pct: 0.0,
+        solutes_pct: [
+            ("glucose".to_string(), 33.0),
+            ("fructose".to_string(), 32.0),
+        ]
+        .into(),
+        density_g_ml: 1.3,
+        allergens: Vec::new(),
+        source: "demo: the Quay Kitchen's own sheet".into(),
+    };
+    {
+        let mut store = match gelu::store::Store::open(&db) {
+            Ok(s) => s,
+            Err(e) => panic!("{e}"),
+        };
+        let item = gelu::store::CustomItem {
+            id: syrup.id.clone(),
+            name: syrup.name.clone(),
+            definition: gelu::recipe_file::own_item_definition(
+                &syrup.name,
+                &[],
+                std::slice::from_ref(&syrup),
+            ),
+        };
+        if let Err(e) = store.save_custom_ingredient(&item) {
+            panic!("{e}");
+        }
+    }
+    let file = dir.path().join("fig.toml");
+    let text = "# Quay fig sorbet, keep this comment\nname = \"Quay fig sorbet\"\nstyle = \"sorbet\"\n\n[[line]]\ningredient = \"water\"\ng = 600\n\n[[line]]\ningredient = \"quay-fig-syrup\"\ng = 300 # from the cellar\n";
+    if let Err(e) = std::fs::write(&file, text) {
+        panic!("{e}");
+    }
+    let (mut s, mut services) = open(&db, Some(file.clone()));
+    assert_eq!(s.recipe.recipe.name, "Quay fig sorbet", "{:?}", s.message);
+    assert_eq!(s.recipe.recipe.ingredients, vec![syrup.clone()]);
+    assert!(s.recipe.analysis.is_ok());
+    // A change, then save: the file now carries the syrup and keeps its words.
+    run(&mut s, &mut services, Command::EditAmount);
+    cmd(&mut s, Command::ClearField);
+    type_text(&mut s, "620");
+    run(&mut s, &mut services, Command::Confirm);
+    run(&mut s, &mut services, Command::Save);
+    let saved = std::fs::read_to_string(&file).unwrap_or_default();
+    assert!(
+        saved.contains("# Quay fig sorbet, keep this comment"),
+        "{saved}"
+    );
+    assert!(saved.contains("g = 300 # from the cellar"), "{saved}");
+    let alone = gelu::recipe_file::parse_recipe(&file, &saved);
+    assert!(
+        alone.is_ok_and(|r| r.ingredients == vec![syrup.clone()]),
+        "the file reads without the log:\n{saved}"
+    );
+    // Opened again as it was and recorded as a batch: the record reads alone too.
+    if let Err(e) = std::fs::write(&file, text) {
+        panic!("{e}");
+    }
+    let (mut s, mut services) = open(&db, Some(file.clone()));
+    s.settings.operator = "QK".into();
+    run(&mut s, &mut services, Command::StartBatch);
+    run(&mut s, &mut services, Command::Confirm);
+    let Some(detail) = s.batches.detail.clone() else {
+        panic!("the batch was recorded: {:?}", s.message);
+    };
+    let store = match gelu::store::Store::open(&db) {
+        Ok(st) => st,
+        Err(e) => panic!("{e}"),
+    };
+    let recorded = match store.batch(&detail.row.code) {
+        Ok(Some(b)) => b.recipe.text,
+        other => panic!("{other:?}"),
+    };
+    let alone = gelu::recipe_file::parse_recipe(&file, &recorded);
+    assert!(
+        alone.is_ok_and(|r| r.ingredients == vec![syrup]),
+        "{recorded}"
+    );
+}

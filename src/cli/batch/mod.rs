@@ -22,7 +22,8 @@ use crate::catalog::Catalog;
 use crate::clock;
 use crate::model::time::{DayEnd, parse_date_bound};
 use crate::model::units::parse_number;
-use crate::recipe_file::read_recipe;
+use crate::model::{OwnItems, Recipe};
+use crate::recipe_file::{append_own_items, parse_recipe, read_recipe_using};
 use crate::report::batch_text::{batch_text, summary_line};
 use crate::store::Store;
 
@@ -100,6 +101,29 @@ fn show(store: &Store, code: &str, json: bool) -> anyhow::Result<ExitCode> {
     Ok(ExitCode::SUCCESS)
 }
 
+/// The recipe file as a batch records it: when it uses own items from the log,
+/// they are added to its text (which is otherwise kept as it is), so the
+/// recorded version reads without the log.
+fn recorded_recipe(path: &Path, own: &OwnItems) -> anyhow::Result<(Recipe, String)> {
+    let (parsed, text, borrowed) = read_recipe_using(path, own)?;
+    if borrowed.is_empty() {
+        return Ok((parsed, text));
+    }
+    let text = append_own_items(path, &text, &borrowed)?;
+    let parsed = parse_recipe(path, &text)?;
+    let ids: Vec<&str> = borrowed
+        .ingredients
+        .iter()
+        .map(|i| i.id.as_str())
+        .chain(borrowed.solutes.iter().map(|s| s.id.as_str()))
+        .collect();
+    eprintln!(
+        "gelu: the recorded recipe carries your own {} from the batch log, so the record never depends on the log",
+        ids.join(", ")
+    );
+    Ok((parsed, text))
+}
+
 fn new_batch(
     db: Option<&Path>,
     recipe: &Path,
@@ -109,10 +133,11 @@ fn new_batch(
     note: Option<&str>,
     json: bool,
 ) -> anyhow::Result<ExitCode> {
-    let (parsed, text) = read_recipe(recipe)?;
     let size = parse_size(size)?;
     let operator = who(by)?;
     let lots = lots(lot_args)?;
+    let mut store = open_store(db)?;
+    let (parsed, text) = recorded_recipe(recipe, &super::own::own_items_of(&store)?)?;
     let planned = plan_batch(
         &Plan {
             recipe: &parsed,
@@ -126,7 +151,6 @@ fn new_batch(
         Catalog::builtin(),
         &Options::default(),
     )?;
-    let mut store = open_store(db)?;
     let b = store.new_batch(&planned)?;
     if json {
         print_json(&b);

@@ -2,12 +2,10 @@
 //! key-value pairs, the user's own items as TOML definitions, and batch
 //! records as the rows and details the batch log draws.
 
-use std::path::Path;
-
 use crate::batch::compare::comparisons;
 use crate::batch::{Batch, BatchSummary};
-use crate::model::{Amount, Ingredient, Line, Recipe, Solute};
-use crate::recipe_file::{parse_recipe, recipe_to_toml};
+use crate::model::{Ingredient, Solute};
+use crate::recipe_file::{own_item_definition, own_items_in};
 use crate::store::{CustomItem, Store};
 
 use super::super::state::{BatchDetailView, BatchRow, MeasurementRow, OwnLibrary, Settings};
@@ -83,51 +81,23 @@ pub fn load_settings(store: &Store) -> Settings {
 }
 
 /// An own solute or ingredient as stored: a small recipe file holding it (and
-/// the own solutes it uses), with one line of water so it reads as a recipe.
+/// the own solutes it uses).
 pub fn own_item(
     id: &str,
     name: &str,
     solutes: Vec<Solute>,
     ingredients: Vec<Ingredient>,
 ) -> CustomItem {
-    let holder = Recipe {
-        name: name.to_string(),
-        solutes,
-        ingredients,
-        lines: vec![Line {
-            ingredient: "water".into(),
-            amount: Amount::Grams(1.0),
-        }],
-        ..Recipe::default()
-    };
     CustomItem {
         id: id.to_string(),
         name: name.to_string(),
-        definition: recipe_to_toml(&holder),
+        definition: own_item_definition(name, &solutes, &ingredients),
     }
 }
 
 /// The user's own solutes and ingredients stored in the database.
 pub fn load_own_library(store: &Store) -> anyhow::Result<OwnLibrary> {
-    let mut own = OwnLibrary::default();
-    for item in store.custom_solutes()? {
-        let holder = parse_recipe(Path::new(&item.id), &item.definition)
-            .map_err(|e| anyhow::anyhow!("{e}"))?;
-        own.solutes
-            .extend(holder.solutes.into_iter().filter(|s| s.id == item.id));
-    }
-    for item in store.custom_ingredients()? {
-        let holder = parse_recipe(Path::new(&item.id), &item.definition)
-            .map_err(|e| anyhow::anyhow!("{e}"))?;
-        for s in holder.solutes {
-            if !own.solutes.iter().any(|o| o.id == s.id) {
-                own.solutes.push(s);
-            }
-        }
-        own.ingredients
-            .extend(holder.ingredients.into_iter().filter(|i| i.id == item.id));
-    }
-    Ok(own)
+    own_items_in(store)
 }
 
 fn minute(t: &chrono::DateTime<chrono::Utc>) -> String {

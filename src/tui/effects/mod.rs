@@ -15,9 +15,10 @@ use crate::batch::{BatchFilter, LineRef};
 use crate::catalog::Catalog;
 use crate::clock;
 use crate::model::Amount;
+use crate::model::OwnItems;
 use crate::model::Recipe;
 use crate::model::time::{DayEnd, parse_date_bound};
-use crate::recipe_file::{parse_recipe, read_recipe, recipe_to_toml};
+use crate::recipe_file::{parse_recipe, parse_recipe_using, read_recipe_using, recipe_to_toml};
 use crate::store::{CustomItem, Store};
 
 use super::action::{Action, Effect};
@@ -67,8 +68,7 @@ impl Services {
             ))),
         }
         if let Some(path) = &launch.file {
-            let (recipe, text) = read_recipe(path).map_err(|e| anyhow::anyhow!("{e}"))?;
-            actions.push(loaded_file(path, recipe, text));
+            actions.push(self.open_file(path)?);
         } else if let Ok(recipes) = self.store.recipes() {
             // Reopen the recipe last worked on; on a new log, the house vanilla if seeded.
             let remembered = self.store.get_setting(LAST_RECIPE_KEY).ok().flatten();
@@ -100,10 +100,7 @@ impl Services {
         let s = &mut self.store;
         Ok(match effect {
             Effect::Quit => Vec::new(),
-            Effect::OpenFile(path) => {
-                let (recipe, text) = read_recipe(&path).map_err(|e| anyhow::anyhow!("{e}"))?;
-                vec![loaded_file(&path, recipe, text)]
-            }
+            Effect::OpenFile(path) => vec![self.open_file(&path)?],
             Effect::SaveFile {
                 path,
                 original,
@@ -216,6 +213,20 @@ impl Services {
         let _ = self.store.set_setting(LAST_RECIPE_KEY, name);
     }
 
+    /// The user's own items in the log (none when they cannot be read; startup
+    /// says so once).
+    fn own(&self) -> OwnItems {
+        convert::load_own_library(&self.store).unwrap_or_default()
+    }
+
+    /// Reads a recipe file, which may lean on the user's own items in the log
+    /// (copied into the recipe, so saving writes them into the file).
+    fn open_file(&self, path: &Path) -> anyhow::Result<Action> {
+        let (recipe, text, _) =
+            read_recipe_using(path, &self.own()).map_err(|e| anyhow::anyhow!("{e}"))?;
+        Ok(loaded_file(path, recipe, text))
+    }
+
     fn load(&self, name: &str) -> Action {
         let found = self
             .store
@@ -224,8 +235,8 @@ impl Services {
         match found {
             Ok(Some(summary)) => {
                 let label = PathBuf::from(format!("{name} (database)"));
-                match parse_recipe(&label, &summary.latest_text) {
-                    Ok(recipe) => Action::RecipeLoaded {
+                match parse_recipe_using(&label, &summary.latest_text, &self.own()) {
+                    Ok((recipe, _)) => Action::RecipeLoaded {
                         recipe,
                         source: RecipeSource::Database {
                             name: summary.name,
@@ -320,9 +331,12 @@ fn load_page(store: &Store, query: BatchQuery) -> anyhow::Result<BatchPage> {
 }
 
 fn start_batch(store: &mut Store, request: BatchRequest) -> anyhow::Result<Action> {
+    // The recorded text must read on its own: a file that leans on the user's
+    // own items in the log is recorded as the recipe with them written in.
     let text = request
         .recipe_text
         .clone()
+        .filter(|t| parse_recipe(Path::new(&request.recipe.name), t).is_ok())
         .unwrap_or_else(|| recipe_to_toml(&request.recipe));
     let lots: Vec<(LineRef, String)> = request
         .lots

@@ -9,7 +9,7 @@ use crate::analysis::{
 };
 use crate::catalog::Catalog;
 use crate::model::units::trim_number;
-use crate::model::{Ingredient, MassUnit, Recipe, Solute, TempUnit};
+use crate::model::{MassUnit, Recipe, TempUnit};
 
 mod batches;
 mod context;
@@ -166,13 +166,7 @@ pub struct IngredientsState {
 }
 
 /// The user's own solutes and ingredients.
-#[derive(Debug, Clone, Default, PartialEq)]
-pub struct OwnLibrary {
-    /// Own solutes.
-    pub solutes: Vec<Solute>,
-    /// Own ingredients.
-    pub ingredients: Vec<Ingredient>,
-}
+pub use crate::model::OwnItems as OwnLibrary;
 
 impl Settings {
     /// The value of a setting as it is typed (and shown, before its unit).
