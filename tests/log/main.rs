@@ -9,6 +9,7 @@ mod batch_cli;
 mod batch_processes;
 mod characterise_cli;
 mod cli_report;
+mod compare_cli;
 mod own_items_cli;
 mod store_import;
 mod store_migrate;

@@ -4,7 +4,7 @@
 //! colour.
 
 use crate::common::{cmd, draw, loaded_state, type_text};
-use gelu::batch::compare::Comparison;
+use gelu::batch::compare::{Comparison, PredictedFrom};
 use gelu::tui::state::{BatchDetailView, BatchPage, BatchRow, MeasurementRow, State};
 use gelu::tui::{Action, Command, update};
 use ratatui::Terminal;
@@ -59,7 +59,12 @@ fn with_detail() -> State {
             comparisons: vec![Comparison {
                 kind,
                 predicted: Some(-2.79),
+                predicted_from: PredictedFrom::Recorded,
+                no_prediction: None,
+                calibrated: None,
                 measured: Some(-2.9),
+                measured_at: None,
+                likely_causes: Vec::new(),
             }],
             measurements: vec![MeasurementRow {
                 at: "2026-12-01 10:12".into(),

@@ -3,6 +3,9 @@
 
 use std::path::PathBuf;
 
+use crate::batch::MeasurementKind;
+use crate::model::Style;
+
 /// Arguments of `gelu batch`.
 #[derive(Debug, clap::Args)]
 pub struct BatchArgs {
@@ -118,6 +121,36 @@ pub enum BatchCommand {
         /// The supplier lot of a line, repeatable: --lot whole-milk=M-2612-04.
         #[arg(long = "lot", value_name = "INGREDIENT=LOT")]
         lots: Vec<String>,
+    },
+    /// Predicted against measured over the log, per kind: count, bias, RMSE,
+    /// the worst batches, those far off with likely causes, and a chart.
+    Compare {
+        /// Only batches of this recipe (its exact name).
+        #[arg(long, value_name = "NAME")]
+        recipe: Option<String>,
+        /// Only batches of recipes of this style (ice-cream, gelato, sorbet, ...).
+        #[arg(long, value_name = "STYLE", value_parser = super::compare::style_name)]
+        style: Option<Style>,
+        /// Made on or after DATE (YYYY-MM-DD, UTC, or an RFC 3339 time).
+        #[arg(long, value_name = "DATE")]
+        since: Option<String>,
+        /// Only this kind (freezing-point-c, abv-pct, brix, draw-temp-c, ...).
+        #[arg(long, value_name = "KIND", value_parser = super::compare::predicted_kind)]
+        kind: Option<MeasurementKind>,
+        /// The precision of your instrument for a kind, repeatable:
+        /// --precision freezing-point-c=0.3 for a probe thermometer.
+        #[arg(long = "precision", value_name = "KIND=PRECISION", value_parser = super::compare::precision)]
+        precisions: Vec<(MeasurementKind, f64)>,
+        /// One JSON object per kind per line.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Show, or set, the share of water frozen at draw the log predicts draw
+    /// temperatures at (default 0.5: about half the water is frozen at draw,
+    /// McGee, On Food and Cooking).
+    DrawShare {
+        /// The new share (0..1, or a percentage like 45%).
+        share: Option<String>,
     },
     /// Write batches as JSON Lines (lossless) or CSV to standard output.
     Export {

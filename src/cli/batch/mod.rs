@@ -3,6 +3,7 @@
 //! as text, or as JSON (one object per batch per line) with `--json`.
 
 mod args;
+mod compare;
 
 use std::io::Write;
 use std::path::Path;
@@ -14,14 +15,16 @@ pub use args::{BatchArgs, BatchCommand, ExportFormat, FilterArgs};
 
 use super::db::open_store;
 use crate::analysis::Options;
+use crate::batch::compare::{comparisons, comparisons_json};
 use crate::batch::export::Format;
 use crate::batch::jsonl::batch_json;
-use crate::batch::plan::{Plan, parse_size, plan_batch};
+use crate::batch::plan::{Plan, parse_size, plan_batch_drawn};
+use crate::batch::reading::all_as_recorded;
 use crate::batch::{Batch, BatchFilter, Edit, LineRef, MeasurementKind};
 use crate::catalog::Catalog;
 use crate::clock;
 use crate::model::time::{DayEnd, parse_date_bound};
-use crate::model::units::parse_number;
+use crate::model::units::{parse_number, parse_share};
 use crate::model::{OwnItems, Recipe};
 use crate::recipe_file::{append_own_items, parse_recipe, read_recipe_using};
 use crate::report::batch_text::{batch_text, summary_line};
@@ -93,10 +96,16 @@ fn show(store: &Store, code: &str, json: bool) -> anyhow::Result<ExitCode> {
     let b = store
         .batch(code)?
         .ok_or_else(|| crate::store::StoreError::NoSuchBatch { code: code.into() })?;
+    let log = store.log_setting()?;
     if json {
-        print_json(&b);
+        let mut value = batch_json(&b);
+        if let Some(object) = value.as_object_mut() {
+            let compared = comparisons(&b, &log.setting());
+            object.insert("compared".into(), comparisons_json(&compared));
+        }
+        println!("{value}");
     } else {
-        print!("{}", batch_text(&b));
+        print!("{}", batch_text(&b, &log.setting()));
     }
     Ok(ExitCode::SUCCESS)
 }
@@ -138,7 +147,7 @@ fn new_batch(
     let lots = lots(lot_args)?;
     let mut store = open_store(db)?;
     let (parsed, text) = recorded_recipe(recipe, &super::own::own_items_of(&store)?)?;
-    let planned = plan_batch(
+    let planned = plan_batch_drawn(
         &Plan {
             recipe: &parsed,
             recipe_text: &text,
@@ -150,6 +159,7 @@ fn new_batch(
         },
         Catalog::builtin(),
         &Options::default(),
+        store.draw_frozen_fraction()?,
     )?;
     let b = store.new_batch(&planned)?;
     if json {
@@ -216,7 +226,7 @@ pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
                 .collect::<anyhow::Result<Vec<_>>>()?;
             let who = who(by)?;
             let mut store = open_store(db)?;
-            let saved = store.add_measurements(code, &list, &who)?;
+            let saved = store.add_measurements(code, &all_as_recorded(&list), &who)?;
             println!("{code}: {} measurement(s) recorded", saved.len());
             Ok(ExitCode::SUCCESS)
         }
@@ -257,6 +267,41 @@ pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
             let who = who(by)?;
             let a = open_store(db)?.amend(code, &who, reason, &edits)?;
             println!("{code}: amended ({} change(s))", a.changes.len());
+            Ok(ExitCode::SUCCESS)
+        }
+        BatchCommand::Compare {
+            recipe,
+            style,
+            since,
+            kind,
+            precisions,
+            json,
+        } => {
+            let store = open_store(db)?;
+            let mut log = store.log_setting()?;
+            log.precisions.clone_from(precisions);
+            let f = filter(
+                &FilterArgs {
+                    recipe: recipe.clone(),
+                    since: since.clone(),
+                    until: None,
+                    search: None,
+                },
+                0,
+            )?;
+            let pairs = compare::gather(&store, &f, *style, *kind, &log)?;
+            compare::print(&pairs, *json)
+        }
+        BatchCommand::DrawShare { share } => {
+            let mut store = open_store(db)?;
+            if let Some(text) = share {
+                let share = parse_share(text).map_err(anyhow::Error::msg)?;
+                store.set_draw_frozen_fraction(share)?;
+            }
+            println!(
+                "draw temperatures are predicted at {} % of the water frozen",
+                crate::model::units::trim_number(100.0 * store.draw_frozen_fraction()?)
+            );
             Ok(ExitCode::SUCCESS)
         }
         BatchCommand::Export {

@@ -2,7 +2,7 @@
 //! key-value pairs, the user's own items as TOML definitions, and batch
 //! records as the rows and details the batch log draws.
 
-use crate::batch::compare::comparisons;
+use crate::batch::compare::{Setting, comparisons};
 use crate::batch::{Batch, BatchSummary};
 use crate::model::{Ingredient, Solute};
 use crate::recipe_file::{own_item_definition, own_items_in};
@@ -119,9 +119,10 @@ pub fn row(b: &BatchSummary) -> BatchRow {
     }
 }
 
-/// One batch in full, with predicted against measured figures.
-pub fn detail(b: &Batch) -> BatchDetailView {
-    let comparisons = comparisons(b);
+/// One batch in full, with predicted against measured figures (`setting`:
+/// the draw share and corrections in force).
+pub fn detail(b: &Batch, setting: &Setting<'_>) -> BatchDetailView {
+    let comparisons = comparisons(b, setting);
     let mut notes: Vec<(String, String, String)> = b
         .notes
         .iter()

@@ -10,7 +10,8 @@ use std::path::{Path, PathBuf};
 use anyhow::Context as _;
 
 use crate::analysis::Options;
-use crate::batch::plan::{Plan, plan_batch};
+use crate::batch::plan::{Plan, plan_batch_drawn};
+use crate::batch::reading::as_recorded;
 use crate::batch::{BatchFilter, LineRef};
 use crate::catalog::Catalog;
 use crate::clock;
@@ -171,7 +172,13 @@ impl Services {
             }
             Effect::LoadBatches(query) => vec![Action::BatchesPage(load_page(s, query)?)],
             Effect::LoadBatchDetail(code) => match s.batch(&code)? {
-                Some(batch) => vec![Action::BatchDetail(Box::new(convert::detail(&batch)))],
+                Some(batch) => {
+                    let log = s.log_setting()?;
+                    vec![Action::BatchDetail(Box::new(convert::detail(
+                        &batch,
+                        &log.setting(),
+                    )))]
+                }
                 None => anyhow::bail!("there is no batch {code}"),
             },
             Effect::StartBatch(request) => vec![start_batch(s, request)?],
@@ -181,7 +188,7 @@ impl Services {
                 value,
                 by,
             } => {
-                s.add_measurement(&code, kind, value, &by)?;
+                s.add_measurements(&code, &as_recorded(kind, value), &by)?;
                 changed(code, "Measurement recorded.")
             }
             Effect::AddNote { code, text, by } => {
@@ -346,7 +353,7 @@ fn start_batch(store: &mut Store, request: BatchRequest) -> anyhow::Result<Actio
         .map(|(k, lot)| (LineRef::Number(k + 1), lot.trim().to_string()))
         .collect();
     let note = (!request.note.trim().is_empty()).then_some(request.note.as_str());
-    let new = plan_batch(
+    let new = plan_batch_drawn(
         &Plan {
             recipe: &request.recipe,
             recipe_text: &text,
@@ -358,6 +365,7 @@ fn start_batch(store: &mut Store, request: BatchRequest) -> anyhow::Result<Actio
         },
         Catalog::builtin(),
         &Options::default(),
+        store.draw_frozen_fraction()?,
     )?;
     let batch = store.new_batch(&new)?;
     Ok(Action::BatchChanged {

@@ -211,6 +211,7 @@ pub fn kind_label(kind: MeasurementKind) -> &'static str {
         MeasurementKind::TitratableAcidityPct => "acidity",
         MeasurementKind::PasteuriseTempC => "pasteurised at",
         MeasurementKind::PasteuriseTimeS => "pasteurised for",
+        MeasurementKind::FreezingPointH => "freezing pt. °H",
     }
 }
 
