@@ -316,14 +316,15 @@ pub fn comparisons(batch: &Batch, setting: &Setting<'_>) -> Vec<Comparison> {
 
 /// The batch's readings that have a prediction, as the pairs the statistics of
 /// [`crate::measure`] take (the prediction as recorded, uncorrected; the
-/// latest reading of each kind), if the batch is of `style` (any when `None`);
-/// only of `kind` when one is given.
+/// latest reading of each kind), each with the corrected prediction when a
+/// correction is in force for it; if the batch is of `style` (any when
+/// `None`), and only of `kind` when one is given.
 pub fn measured_pairs(
     batch: &Batch,
     setting: &Setting<'_>,
     style_wanted: Option<Style>,
     kind: Option<MeasurementKind>,
-) -> Vec<measure::Comparison> {
+) -> Vec<(measure::Comparison, Option<f64>)> {
     if style_wanted.is_some() && style(batch) != style_wanted {
         return Vec::new();
     }
@@ -331,14 +332,15 @@ pub fn measured_pairs(
         .into_iter()
         .filter(|c| kind.is_none_or(|k| k == c.kind))
         .filter_map(|c| {
-            Some(measure::Comparison {
+            let pair = measure::Comparison {
                 kind: c.kind.as_str().to_string(),
                 predicted: c.predicted?,
                 measured: c.measured?,
                 batch_code: batch.code.clone(),
                 taken_at: c.measured_at?,
                 precision: setting.precision(c.kind),
-            })
+            };
+            Some((pair, c.calibrated.map(|k| k.value)))
         })
         .collect()
 }

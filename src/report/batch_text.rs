@@ -46,7 +46,14 @@ fn prediction_text(c: &Comparison) -> String {
         text.push_str(" (computed now from the recorded recipe)");
     }
     if let Some(k) = &c.calibrated {
-        text.push_str(&format!(" [calibrated {:.2}: {}]", k.value, k.basis));
+        let difference = c
+            .calibrated_difference()
+            .map(|d| format!(", difference {d:+.2}"))
+            .unwrap_or_default();
+        text.push_str(&format!(
+            " [calibrated {:.2}{difference}: {}]",
+            k.value, k.basis
+        ));
     }
     text
 }

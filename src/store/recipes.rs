@@ -207,7 +207,8 @@ impl Store {
     pub fn log_setting(&self) -> Result<crate::batch::compare::LogSetting> {
         Ok(crate::batch::compare::LogSetting {
             draw_frozen_fraction: self.draw_frozen_fraction()?,
-            ..Default::default()
+            corrections: self.corrections_in_force()?,
+            precisions: Vec::new(),
         })
     }
 

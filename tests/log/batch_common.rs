@@ -46,3 +46,27 @@ pub fn new_db() -> (tempfile::TempDir, std::path::PathBuf) {
     let db = dir.path().join("log.db");
     (dir, db)
 }
+
+/// Records a 5 kg batch of the recipe file made at `made_at`, through the library.
+pub fn record(
+    store: &mut gelu::store::Store,
+    file: &str,
+    made_at: chrono::DateTime<chrono::Utc>,
+) -> gelu::batch::Batch {
+    let (recipe, text) = gelu::recipe_file::read_recipe(Path::new(file)).unwrap();
+    let new = gelu::batch::plan::plan_batch(
+        &gelu::batch::plan::Plan {
+            recipe: &recipe,
+            recipe_text: &text,
+            size: gelu::model::Amount::Grams(5000.0),
+            operator: "Ines Harrow",
+            lots: &[],
+            note: None,
+            made_at,
+        },
+        gelu::catalog::Catalog::builtin(),
+        &gelu::analysis::Options::default(),
+    )
+    .unwrap();
+    store.new_batch(&new).unwrap()
+}

@@ -4,15 +4,8 @@
 //! off in plain words, and `gelu batch compare` summarises the log per kind,
 //! recovering a bias injected into synthetic batches.
 
-use std::path::Path;
-
 use chrono::{TimeZone, Utc};
-use gelu::analysis::Options;
-use gelu::batch::plan::{Plan, plan_batch};
 use gelu::batch::{Batch, MeasurementKind};
-use gelu::catalog::Catalog;
-use gelu::model::Amount;
-use gelu::recipe_file::read_recipe;
 use gelu::store::Store;
 use serde_json::Value;
 
@@ -28,25 +21,10 @@ const LIQUEUR: &str = concat!(
 );
 
 /// Records a 5 kg batch of the recipe file, made on day `day` of 2026
-/// (counted from 1 January), through the library.
+/// (counted from 1 January).
 fn record(store: &mut Store, file: &str, day: i64) -> Batch {
-    let (recipe, text) = read_recipe(Path::new(file)).unwrap();
     let made_at = Utc.with_ymd_and_hms(2026, 1, 1, 9, 0, 0).unwrap() + chrono::Duration::days(day);
-    let new = plan_batch(
-        &Plan {
-            recipe: &recipe,
-            recipe_text: &text,
-            size: Amount::Grams(5000.0),
-            operator: "Ines Harrow",
-            lots: &[],
-            note: None,
-            made_at,
-        },
-        Catalog::builtin(),
-        &Options::default(),
-    )
-    .unwrap();
-    store.new_batch(&new).unwrap()
+    crate::batch_common::record(store, file, made_at)
 }
 
 /// Records a measurement `offset` off the batch's own recorded prediction.

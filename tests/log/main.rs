@@ -7,6 +7,7 @@ mod store_common;
 
 mod batch_cli;
 mod batch_processes;
+mod calibrate_cli;
 mod characterise_cli;
 mod cli_report;
 mod compare_cli;

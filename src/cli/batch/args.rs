@@ -31,6 +31,30 @@ pub struct FilterArgs {
     pub search: Option<String>,
 }
 
+/// Which batches `compare` and `calibrate` learn from.
+#[derive(Debug, clap::Args)]
+pub struct Selection {
+    /// Only batches of this recipe (its exact name).
+    #[arg(long, value_name = "NAME")]
+    pub recipe: Option<String>,
+    /// Only batches of recipes of this style (ice-cream, gelato, sorbet, ...).
+    #[arg(long, value_name = "STYLE", value_parser = super::compare::style_name)]
+    pub style: Option<Style>,
+    /// Made on or after DATE (YYYY-MM-DD, UTC, or an RFC 3339 time).
+    #[arg(long, value_name = "DATE")]
+    pub since: Option<String>,
+}
+
+/// Instrument precisions, shared by `compare` and `calibrate`.
+#[derive(Debug, clap::Args)]
+pub struct Precisions {
+    /// The precision of your instrument for a kind, repeatable: a reading is
+    /// weighted and judged by it (--precision freezing-point-c=0.3 for a probe
+    /// thermometer; the default assumes a cryoscope's 0.005 K).
+    #[arg(long = "precision", value_name = "KIND=PRECISION", value_parser = super::compare::precision)]
+    pub list: Vec<(MeasurementKind, f64)>,
+}
+
 /// The `gelu batch` subcommands.
 #[derive(Debug, clap::Subcommand)]
 pub enum BatchCommand {
@@ -125,23 +149,45 @@ pub enum BatchCommand {
     /// Predicted against measured over the log, per kind: count, bias, RMSE,
     /// the worst batches, those far off with likely causes, and a chart.
     Compare {
-        /// Only batches of this recipe (its exact name).
-        #[arg(long, value_name = "NAME")]
-        recipe: Option<String>,
-        /// Only batches of recipes of this style (ice-cream, gelato, sorbet, ...).
-        #[arg(long, value_name = "STYLE", value_parser = super::compare::style_name)]
-        style: Option<Style>,
-        /// Made on or after DATE (YYYY-MM-DD, UTC, or an RFC 3339 time).
-        #[arg(long, value_name = "DATE")]
-        since: Option<String>,
+        #[command(flatten)]
+        batches: Selection,
         /// Only this kind (freezing-point-c, abv-pct, brix, draw-temp-c, ...).
         #[arg(long, value_name = "KIND", value_parser = super::compare::predicted_kind)]
         kind: Option<MeasurementKind>,
-        /// The precision of your instrument for a kind, repeatable:
-        /// --precision freezing-point-c=0.3 for a probe thermometer.
-        #[arg(long = "precision", value_name = "KIND=PRECISION", value_parser = super::compare::precision)]
-        precisions: Vec<(MeasurementKind, f64)>,
+        #[command(flatten)]
+        precisions: Precisions,
         /// One JSON object per kind per line.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Fit a correction of one kind for a recipe or a style from the logged
+    /// batches and show how it would change the predictions; --turn-on puts it
+    /// in force as a new version, --turn-off takes it out.
+    #[command(group(clap::ArgGroup::new("scope").required(true).args(["recipe", "style"])))]
+    Calibrate {
+        /// The kind to correct (freezing-point-c, brix, abv-pct, draw-temp-c, ...).
+        #[arg(long, value_name = "KIND", value_parser = super::compare::predicted_kind)]
+        kind: MeasurementKind,
+        #[command(flatten)]
+        batches: Selection,
+        #[command(flatten)]
+        precisions: Precisions,
+        /// Store the correction as a new version and put it in force.
+        #[arg(long, conflicts_with = "turn_off")]
+        turn_on: bool,
+        /// Take the correction in force out (its versions stay in the log).
+        #[arg(long)]
+        turn_off: bool,
+        /// Who turns it on or off (default: the login name).
+        #[arg(long, value_name = "NAME")]
+        by: Option<String>,
+        /// As one JSON object.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Every stored correction version, and who put which in force or took it out, when.
+    Calibrations {
+        /// One JSON object per version, then per switch, per line.
         #[arg(long)]
         json: bool,
     },

@@ -6,6 +6,8 @@
 use std::fmt::Write as _;
 use std::process::ExitCode;
 
+use serde::Serialize;
+
 use crate::batch::compare::{LogSetting, measured_pairs};
 use crate::batch::{BatchFilter, MeasurementKind};
 use crate::measure::{self, KindSummary, render_chart, summarise};
@@ -55,14 +57,15 @@ pub fn precision(text: &str) -> Result<(MeasurementKind, f64), String> {
 }
 
 /// Every measured figure of the batches `filter` selects (and of `style`, and
-/// of `kind`) paired with its prediction.
+/// of `kind`) paired with its prediction, and the corrected prediction when a
+/// correction is in force for it.
 pub fn gather(
     store: &Store,
     filter: &BatchFilter,
     style: Option<Style>,
     kind: Option<MeasurementKind>,
     setting: &LogSetting,
-) -> anyhow::Result<Vec<measure::Comparison>> {
+) -> anyhow::Result<Vec<(measure::Comparison, Option<f64>)>> {
     let mut pairs = Vec::new();
     store.each_batch(filter, |b| {
         pairs.extend(measured_pairs(b, &setting.setting(), style, kind));
@@ -116,18 +119,73 @@ pub fn summary_text(s: &KindSummary) -> String {
     out
 }
 
+/// The statistics of one kind with the corrections in force applied.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct WithCorrections {
+    /// How many of the kind's batches a correction applied to.
+    pub corrected: usize,
+    /// Mean of measured minus the prediction as corrected.
+    pub bias: f64,
+    /// Root-mean-square of the same.
+    pub rmse: f64,
+}
+
+/// The statistics of `kind` with each corrected prediction in place of the
+/// plain one; `None` when no correction applied to any of its batches.
+pub fn with_corrections(
+    pairs: &[(measure::Comparison, Option<f64>)],
+    kind: &str,
+) -> Option<WithCorrections> {
+    let of_kind: Vec<&(measure::Comparison, Option<f64>)> =
+        pairs.iter().filter(|(c, _)| c.kind == kind).collect();
+    let corrected = of_kind.iter().filter(|(_, k)| k.is_some()).count();
+    if corrected == 0 {
+        return None;
+    }
+    let d: Vec<f64> = of_kind
+        .iter()
+        .map(|(c, k)| c.measured - k.unwrap_or(c.predicted))
+        .collect();
+    let n = d.len() as f64;
+    Some(WithCorrections {
+        corrected,
+        bias: d.iter().sum::<f64>() / n,
+        rmse: (d.iter().map(|x| x * x).sum::<f64>() / n).sqrt(),
+    })
+}
+
 /// Prints the summaries; says so on stderr when there is nothing to compare.
-pub fn print(pairs: &[measure::Comparison], json: bool) -> anyhow::Result<ExitCode> {
-    let summaries = summarise(pairs)?;
+pub fn print(pairs: &[(measure::Comparison, Option<f64>)], json: bool) -> anyhow::Result<ExitCode> {
+    let plain: Vec<measure::Comparison> = pairs.iter().map(|(c, _)| c.clone()).collect();
+    let summaries = summarise(&plain)?;
     if summaries.is_empty() {
         eprintln!("no measured figure of these batches has a prediction to set it against");
     }
+    let mut out = String::new();
     for s in &summaries {
+        let corrected = with_corrections(pairs, &s.kind);
         if json {
-            println!("{}", serde_json::to_string(s)?);
+            let mut value = serde_json::to_value(s)?;
+            if let Some(object) = value.as_object_mut() {
+                object.insert("calibrated".into(), serde_json::to_value(corrected)?);
+            }
+            let _ = writeln!(out, "{value}");
         } else {
-            println!("{}", summary_text(s));
+            out.push_str(&summary_text(s));
+            if let Some(k) = corrected {
+                let _ = writeln!(
+                    out,
+                    "  with the corrections in force ({} of {} batches corrected): bias {:+.3} {u}, RMSE {:.3} {u}",
+                    k.corrected,
+                    s.n,
+                    k.bias,
+                    k.rmse,
+                    u = s.unit
+                );
+            }
+            out.push('\n');
         }
     }
+    std::io::Write::write_all(&mut std::io::stdout().lock(), out.as_bytes())?;
     Ok(ExitCode::SUCCESS)
 }

@@ -3,6 +3,7 @@
 //! as text, or as JSON (one object per batch per line) with `--json`.
 
 mod args;
+mod calibrate;
 mod compare;
 
 use std::io::Write;
@@ -11,7 +12,7 @@ use std::process::ExitCode;
 
 use anyhow::{Context, bail};
 
-pub use args::{BatchArgs, BatchCommand, ExportFormat, FilterArgs};
+pub use args::{BatchArgs, BatchCommand, ExportFormat, FilterArgs, Selection};
 
 use super::db::open_store;
 use crate::analysis::Options;
@@ -270,16 +271,19 @@ pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
             Ok(ExitCode::SUCCESS)
         }
         BatchCommand::Compare {
-            recipe,
-            style,
-            since,
+            batches:
+                Selection {
+                    recipe,
+                    style,
+                    since,
+                },
             kind,
             precisions,
             json,
         } => {
             let store = open_store(db)?;
             let mut log = store.log_setting()?;
-            log.precisions.clone_from(precisions);
+            log.precisions.clone_from(&precisions.list);
             let f = filter(
                 &FilterArgs {
                     recipe: recipe.clone(),
@@ -292,6 +296,43 @@ pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
             let pairs = compare::gather(&store, &f, *style, *kind, &log)?;
             compare::print(&pairs, *json)
         }
+        BatchCommand::Calibrate {
+            kind,
+            batches:
+                Selection {
+                    recipe,
+                    style,
+                    since,
+                },
+            precisions,
+            turn_on,
+            turn_off,
+            by,
+            json,
+        } => {
+            let request = calibrate::Request {
+                kind: *kind,
+                recipe: recipe.clone(),
+                style: *style,
+                since: since
+                    .as_deref()
+                    .map(|d| date(d, DayEnd::Start))
+                    .transpose()?,
+            };
+            let turn = match (turn_on, turn_off) {
+                (true, _) => Some(true),
+                (_, true) => Some(false),
+                _ => None,
+            };
+            let by = if turn.is_some() {
+                who(by)?
+            } else {
+                String::new()
+            };
+            let mut store = open_store(db)?;
+            calibrate::run(&mut store, &request, &precisions.list, turn, &by, *json)
+        }
+        BatchCommand::Calibrations { json } => calibrate::history(&open_store(db)?, *json),
         BatchCommand::DrawShare { share } => {
             let mut store = open_store(db)?;
             if let Some(text) = share {
