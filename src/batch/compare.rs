@@ -403,3 +403,63 @@ pub fn readings<'a>(batch: &'a Batch, comparisons: &[Comparison]) -> Vec<Reading
         })
         .collect()
 }
+
+/// The statistics of one kind with the corrections in force applied.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct WithCorrections {
+    /// How many of the kind's batches a correction applied to.
+    pub corrected: usize,
+    /// Mean of measured minus the prediction as corrected.
+    pub bias: f64,
+    /// Root-mean-square of the same.
+    pub rmse: f64,
+}
+
+/// The statistics of `kind` over `pairs` (from [`measured_pairs`]) with each
+/// corrected prediction in place of the plain one; `None` when no correction
+/// applied to any of its batches.
+pub fn with_corrections(
+    pairs: &[(measure::Comparison, Option<f64>)],
+    kind: &str,
+) -> Option<WithCorrections> {
+    let of_kind: Vec<&(measure::Comparison, Option<f64>)> =
+        pairs.iter().filter(|(c, _)| c.kind == kind).collect();
+    let corrected = of_kind.iter().filter(|(_, k)| k.is_some()).count();
+    if corrected == 0 {
+        return None;
+    }
+    let d: Vec<f64> = of_kind
+        .iter()
+        .map(|(c, k)| c.measured - k.unwrap_or(c.predicted))
+        .collect();
+    let n = d.len() as f64;
+    Some(WithCorrections {
+        corrected,
+        bias: d.iter().sum::<f64>() / n,
+        rmse: (d.iter().map(|x| x * x).sum::<f64>() / n).sqrt(),
+    })
+}
+
+/// The batches a correction of `scope` learns from: a recipe's (by name), or a
+/// style's.
+pub fn scope_batches(scope: &Scope) -> (Option<String>, Option<Style>) {
+    match scope {
+        Scope::Recipe(name) => (Some(name.clone()), None),
+        Scope::Style(name) => (None, Style::parse(name)),
+    }
+}
+
+/// Fits the correction of `kind` for `scope` from the pairs of its batches
+/// (from [`measured_pairs`]), with the kind's prior.
+pub fn fit_for(
+    kind: &str,
+    scope: &Scope,
+    pairs: &[(measure::Comparison, Option<f64>)],
+) -> Result<Correction, measure::CalibrationError> {
+    let prior = measure::CalibrationPrior::for_kind(kind).unwrap_or(measure::CalibrationPrior {
+        prior_scale: 1.0,
+        batch_spread_floor: 0.0,
+    });
+    let plain: Vec<measure::Comparison> = pairs.iter().map(|(c, _)| c.clone()).collect();
+    measure::fit_correction(kind, scope.clone(), &plain, prior)
+}

@@ -383,3 +383,121 @@ fn a_file_leaning_on_an_own_item_opens_and_saves_carrying_it() {
         "{recorded}"
     );
 }
+
+#[test]
+fn the_measurement_loop_runs_against_the_log() {
+    use gelu::batch::MeasurementKind;
+    use gelu::batch::plan::{Plan, plan_batch};
+    let dir = tempdir();
+    let db = dir.path().join("log.db");
+    // Six vanilla batches whose freezing point read 0.2 K warmer than predicted.
+    {
+        let mut store = match gelu::store::Store::open(&db) {
+            Ok(s) => s,
+            Err(e) => panic!("{e}"),
+        };
+        let Some((name, text)) = gelu::samples::SAMPLE_RECIPES
+            .iter()
+            .find(|(n, _)| n.contains("vanilla"))
+        else {
+            panic!("the vanilla sample");
+        };
+        let recipe = match gelu::recipe_file::parse_recipe(std::path::Path::new(name), text) {
+            Ok(r) => r,
+            Err(e) => panic!("{e}"),
+        };
+        for _ in 0..6 {
+            let new = plan_batch(
+                &Plan {
+                    recipe: &recipe,
+                    recipe_text: text,
+                    size: gelu::model::Amount::Grams(5000.0),
+                    operator: "RW",
+                    lots: &[],
+                    note: None,
+                    made_at: gelu::clock::now(),
+                },
+                gelu::catalog::Catalog::builtin(),
+                &gelu::analysis::Options::default(),
+            );
+            let b = match new.map(|n| store.new_batch(&n)) {
+                Ok(Ok(b)) => b,
+                other => panic!("{other:?}"),
+            };
+            let p = b.prediction["freezing_point_c"]
+                .as_f64()
+                .unwrap_or(f64::NAN);
+            if let Err(e) =
+                store.add_measurements(&b.code, &[(MeasurementKind::FreezingPointC, p + 0.2)], "RW")
+            {
+                panic!("{e}");
+            }
+        }
+    }
+    let (mut s, mut services) = open(&db, None);
+    s.settings.operator = "RW".into();
+    // An ingredient characterised in the form is saved into the log.
+    run(&mut s, &mut services, Command::ShowIngredients);
+    run(&mut s, &mut services, Command::CharacteriseIngredient);
+    for v in [
+        "slipway-dextrose",
+        "Slipway dextrose",
+        "10:90:-1.17 20:80:-2.70",
+        "100",
+        "1",
+    ] {
+        cmd(&mut s, Command::ClearField);
+        type_text(&mut s, v);
+        cmd(&mut s, Command::NextField);
+    }
+    run(&mut s, &mut services, Command::Confirm);
+    assert!(s.overlay.is_none(), "{:?}", s.message);
+    // The compare view of the vanilla batches, then its correction put in force.
+    run(&mut s, &mut services, Command::ShowBatches);
+    run(&mut s, &mut services, Command::CompareBatches);
+    let Some(view) = s.batches.compare.clone() else {
+        panic!("the compare view opens: {:?}", s.message);
+    };
+    let at = view
+        .kinds
+        .iter()
+        .position(|k| k.summary.kind == "freezing-point-c")
+        .unwrap_or(usize::MAX);
+    assert_eq!(view.kinds[at].summary.n, 6);
+    assert!((view.kinds[at].summary.bias - 0.2).abs() < 1e-9);
+    for _ in 0..at {
+        cmd(&mut s, Command::Down);
+    }
+    run(&mut s, &mut services, Command::Calibrate);
+    run(&mut s, &mut services, Command::Yes);
+    let Some(view) = s.batches.compare.clone() else {
+        panic!("the compare view stays open");
+    };
+    let k = &view.kinds[at];
+    assert!(k.in_force.is_some(), "{:?}", s.message);
+    assert!(
+        k.corrected
+            .is_some_and(|c| c.corrected == 6 && c.bias.abs() < 0.2)
+    );
+    run(&mut s, &mut services, Command::Cancel);
+    // A batch's detail shows the calibrated figure beside the plain one.
+    run(&mut s, &mut services, Command::OpenDetail);
+    let Some(detail) = s.batches.detail.clone() else {
+        panic!("detail");
+    };
+    let fp = detail
+        .comparisons
+        .iter()
+        .find(|c| c.kind == MeasurementKind::FreezingPointC);
+    assert!(
+        fp.is_some_and(|c| c.predicted.is_some()
+            && c.calibrated
+                .as_ref()
+                .is_some_and(|k| k.basis.contains("from 6 batches"))),
+        "{fp:?}"
+    );
+    // After a restart the own ingredient is there.
+    drop(services);
+    let (s, _) = open(&db, None);
+    assert!(s.own.ingredient("slipway-dextrose").is_some());
+}

@@ -11,10 +11,9 @@ use std::process::ExitCode;
 use serde::Serialize;
 use serde_json::json;
 
-use super::compare::{WithCorrections, gather, with_corrections};
-use crate::batch::compare::LogSetting;
+use crate::batch::compare::{LogSetting, WithCorrections, fit_for, with_corrections};
 use crate::batch::{BatchFilter, MeasurementKind};
-use crate::measure::{CalibrationError, CalibrationPrior, Correction, Scope, fit_correction};
+use crate::measure::{CalibrationError, Correction, Scope};
 use crate::model::Style;
 use crate::report::batch_text::minute_text;
 use crate::store::{CalibrationVersion, Store, StoreError, scope_words};
@@ -94,12 +93,10 @@ fn preview(
         since: request.since,
         ..BatchFilter::default()
     };
-    let pairs = gather(store, &filter, request.style, Some(request.kind), log)?;
+    let pairs = store.measured_pairs(&filter, request.style, Some(request.kind), &log.setting())?;
     let kind = request.kind.as_str();
-    let prior = CalibrationPrior::for_kind(kind)
-        .ok_or_else(|| anyhow::anyhow!("gelu has no prior for {kind}"))?;
     let plain: Vec<_> = pairs.iter().map(|(c, _)| c.clone()).collect();
-    let correction = match fit_correction(kind, request.scope(), &plain, prior) {
+    let correction = match fit_for(kind, &request.scope(), &pairs) {
         Ok(c) => c,
         Err(e) => return Ok(Err(e)),
     };

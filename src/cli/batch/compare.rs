@@ -6,13 +6,10 @@
 use std::fmt::Write as _;
 use std::process::ExitCode;
 
-use serde::Serialize;
-
-use crate::batch::compare::{LogSetting, measured_pairs};
-use crate::batch::{BatchFilter, MeasurementKind};
+use crate::batch::MeasurementKind;
+use crate::batch::compare::with_corrections;
 use crate::measure::{self, KindSummary, render_chart, summarise};
 use crate::model::Style;
-use crate::store::Store;
 
 /// Width and height of the chart in characters.
 const CHART: (usize, usize) = (72, 14);
@@ -56,26 +53,6 @@ pub fn precision(text: &str) -> Result<(MeasurementKind, f64), String> {
     }
 }
 
-/// Every measured figure of the batches `filter` selects (and of `style`, and
-/// of `kind`) paired with its prediction, and the corrected prediction when a
-/// correction is in force for it.
-pub fn gather(
-    store: &Store,
-    filter: &BatchFilter,
-    style: Option<Style>,
-    kind: Option<MeasurementKind>,
-    setting: &LogSetting,
-) -> anyhow::Result<Vec<(measure::Comparison, Option<f64>)>> {
-    let mut pairs = Vec::new();
-    store.each_batch(filter, |b| {
-        pairs.extend(measured_pairs(b, &setting.setting(), style, kind));
-        Ok(())
-    })?;
-    // Oldest first, so the chart and the lists read in time order.
-    pairs.reverse();
-    Ok(pairs)
-}
-
 /// One kind's summary for people.
 pub fn summary_text(s: &KindSummary) -> String {
     let mut out = String::new();
@@ -117,41 +94,6 @@ pub fn summary_text(s: &KindSummary) -> String {
         let _ = writeln!(out, "  {l}");
     }
     out
-}
-
-/// The statistics of one kind with the corrections in force applied.
-#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
-pub struct WithCorrections {
-    /// How many of the kind's batches a correction applied to.
-    pub corrected: usize,
-    /// Mean of measured minus the prediction as corrected.
-    pub bias: f64,
-    /// Root-mean-square of the same.
-    pub rmse: f64,
-}
-
-/// The statistics of `kind` with each corrected prediction in place of the
-/// plain one; `None` when no correction applied to any of its batches.
-pub fn with_corrections(
-    pairs: &[(measure::Comparison, Option<f64>)],
-    kind: &str,
-) -> Option<WithCorrections> {
-    let of_kind: Vec<&(measure::Comparison, Option<f64>)> =
-        pairs.iter().filter(|(c, _)| c.kind == kind).collect();
-    let corrected = of_kind.iter().filter(|(_, k)| k.is_some()).count();
-    if corrected == 0 {
-        return None;
-    }
-    let d: Vec<f64> = of_kind
-        .iter()
-        .map(|(c, k)| c.measured - k.unwrap_or(c.predicted))
-        .collect();
-    let n = d.len() as f64;
-    Some(WithCorrections {
-        corrected,
-        bias: d.iter().sum::<f64>() / n,
-        rmse: (d.iter().map(|x| x * x).sum::<f64>() / n).sqrt(),
-    })
 }
 
 /// Prints the summaries; says so on stderr when there is nothing to compare.

@@ -293,7 +293,7 @@ pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
                 },
                 0,
             )?;
-            let pairs = compare::gather(&store, &f, *style, *kind, &log)?;
+            let pairs = store.measured_pairs(&f, *style, *kind, &log.setting())?;
             compare::print(&pairs, *json)
         }
         BatchCommand::Calibrate {

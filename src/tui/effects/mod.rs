@@ -20,7 +20,7 @@ use crate::model::OwnItems;
 use crate::model::Recipe;
 use crate::model::time::{DayEnd, parse_date_bound};
 use crate::recipe_file::{parse_recipe, parse_recipe_using, read_recipe_using, recipe_to_toml};
-use crate::store::{CustomItem, Store};
+use crate::store::{CustomItem, Store, scope_words};
 
 use super::action::{Action, Effect};
 use super::state::{BatchPage, BatchQuery, BatchRequest, RecipeEntry, RecipeSource};
@@ -182,6 +182,25 @@ impl Services {
                 None => anyhow::bail!("there is no batch {code}"),
             },
             Effect::StartBatch(request) => vec![start_batch(s, request)?],
+            Effect::LoadComparison(request) => vec![Action::ComparisonLoaded(Box::new(
+                convert::compare_view(s, request)?,
+            ))],
+            Effect::TurnOnCorrection { correction, by } => {
+                let version = s.turn_on_correction(&correction, &by)?;
+                vec![Action::CorrectionChanged(format!(
+                    "The correction of {} for {} is in force as version {version}: {}. Calibrated figures are marked as such.",
+                    correction.kind,
+                    scope_words(&correction.scope),
+                    correction.basis
+                ))]
+            }
+            Effect::TurnOffCorrection { kind, scope, by } => {
+                s.turn_off_correction(&kind, &scope, &by)?;
+                vec![Action::CorrectionChanged(format!(
+                    "The correction of {kind} for {} is taken out; its versions stay in the log.",
+                    scope_words(&scope)
+                ))]
+            }
             Effect::AddMeasurement {
                 code,
                 kind,

@@ -75,6 +75,8 @@ pub struct Settings {
     pub cabinet_temp_c: f64,
     /// Freezer temperature (°C).
     pub freezer_temp_c: f64,
+    /// Share of the water frozen at draw (0..1) the draw temperature is predicted at.
+    pub draw_frozen_fraction: f64,
     /// Who is working, written on new batches.
     pub operator: String,
 }
@@ -87,6 +89,7 @@ impl Default for Settings {
             serving_frozen_fraction: DEFAULT_SERVING_FROZEN_FRACTION,
             cabinet_temp_c: DEFAULT_CABINET_TEMP_C,
             freezer_temp_c: DEFAULT_FREEZER_TEMP_C,
+            draw_frozen_fraction: crate::measure::DEFAULT_DRAW_FROZEN_FRACTION,
             operator: String::new(),
         }
     }
@@ -184,6 +187,7 @@ impl Settings {
             SettingField::FreezerTemp => {
                 format!("{:.1}", self.temp_unit.from_c(self.freezer_temp_c))
             }
+            SettingField::DrawShare => trim_number(100.0 * self.draw_frozen_fraction),
             SettingField::Operator => self.operator.clone(),
         }
     }
@@ -202,18 +206,21 @@ pub enum SettingField {
     CabinetTemp,
     /// Freezer temperature.
     FreezerTemp,
+    /// Share of water frozen at draw.
+    DrawShare,
     /// Operator name.
     Operator,
 }
 
 impl SettingField {
     /// Every setting, in screen order.
-    pub const ALL: [SettingField; 6] = [
+    pub const ALL: [SettingField; 7] = [
         SettingField::TempUnit,
         SettingField::MassUnit,
         SettingField::ServingTarget,
         SettingField::CabinetTemp,
         SettingField::FreezerTemp,
+        SettingField::DrawShare,
         SettingField::Operator,
     ];
 
@@ -225,6 +232,7 @@ impl SettingField {
             SettingField::ServingTarget => "Default serving target (water frozen)",
             SettingField::CabinetTemp => "Display cabinet temperature",
             SettingField::FreezerTemp => "Freezer temperature",
+            SettingField::DrawShare => "Water frozen at draw (predicted draw)",
             SettingField::Operator => "Operator",
         }
     }
@@ -343,6 +351,9 @@ impl State {
             Some(Overlay::Form(_)) => Context::Form,
             Some(Overlay::Reader(..)) => Context::Reader,
             Some(Overlay::Confirm(_)) => Context::Confirm,
+            None if self.screen == Screen::Batches && self.batches.compare.is_some() => {
+                Context::Compare
+            }
             None if self.screen == Screen::Batches && self.batches.detail.is_some() => {
                 Context::BatchDetail
             }
