@@ -18,6 +18,7 @@
 //! rule of [`crate::measure::summarise`] for one batch: more than 3 σ, with σ
 //! from the instrument's precision and the kind's usual batch-to-batch spread.
 
+use std::collections::HashMap;
 use std::path::Path;
 
 use chrono::{DateTime, Utc};
@@ -205,13 +206,19 @@ fn computed_now(batch: &Batch, setting: &Setting<'_>) -> Result<Predictions, Str
         .map_err(|e| e.to_string())
 }
 
+/// Predictions computed now from recorded recipe texts, by the text's content
+/// hash, so that a recipe version made into many batches is computed once in a
+/// pass over the log (with one [`Setting`]).
+pub type Recomputed = HashMap<String, Result<Predictions, String>>;
+
 /// The batch's prediction of `kind`: the value, where it comes from, and why
-/// there is none when there is none. `now` is computed on first need.
+/// there is none when there is none. What is computed now is computed on first
+/// need and kept in `now`.
 fn prediction(
     batch: &Batch,
     kind: MeasurementKind,
     setting: &Setting<'_>,
-    now: &mut Option<Result<Predictions, String>>,
+    now: &mut Recomputed,
 ) -> (Option<f64>, PredictedFrom, Option<String>) {
     let Some(key) = kind.prediction_key() else {
         return (None, PredictedFrom::Recorded, None);
@@ -225,7 +232,9 @@ fn prediction(
         let why = value.is_none().then(|| why.unwrap_or_default().to_string());
         return (value, PredictedFrom::Recorded, why);
     }
-    let computed = now.get_or_insert_with(|| computed_now(batch, setting));
+    let computed = now
+        .entry(batch.recipe.content_hash.clone())
+        .or_insert_with(|| computed_now(batch, setting));
     match computed {
         Ok(p) => {
             let value = match kind {
@@ -278,14 +287,21 @@ fn flags(
 /// Every kind the model predicts, in the usual order, with the batch's
 /// prediction, any correction turned on for it, its latest reading, and flags.
 pub fn comparisons(batch: &Batch, setting: &Setting<'_>) -> Vec<Comparison> {
-    let mut now = None;
+    comparisons_with(batch, setting, &mut Recomputed::new())
+}
+
+/// As [`comparisons`], keeping what is computed now in `now` for the next batches.
+pub fn comparisons_with(
+    batch: &Batch,
+    setting: &Setting<'_>,
+    now: &mut Recomputed,
+) -> Vec<Comparison> {
     let style = style(batch);
     MeasurementKind::ALL
         .into_iter()
         .filter(|kind| kind.prediction_key().is_some())
         .map(|kind| {
-            let (predicted, predicted_from, no_prediction) =
-                prediction(batch, kind, setting, &mut now);
+            let (predicted, predicted_from, no_prediction) = prediction(batch, kind, setting, now);
             let calibrated = predicted.and_then(|p| {
                 setting
                     .correction(kind, &batch.recipe.recipe, style)
@@ -324,11 +340,12 @@ pub fn measured_pairs(
     setting: &Setting<'_>,
     style_wanted: Option<Style>,
     kind: Option<MeasurementKind>,
+    now: &mut Recomputed,
 ) -> Vec<(measure::Comparison, Option<f64>)> {
     if style_wanted.is_some() && style(batch) != style_wanted {
         return Vec::new();
     }
-    comparisons(batch, setting)
+    comparisons_with(batch, setting, now)
         .into_iter()
         .filter(|c| kind.is_none_or(|k| k == c.kind))
         .filter_map(|c| {

@@ -4,7 +4,7 @@
 use crate::model::{Amount, Ingredient, Recipe, Solute};
 use crate::thermo::binary::WaterModel;
 
-/// Writes a recipe as TOML in the format [`parse_recipe`] reads. Amounts by
+/// Writes a recipe as TOML in the format [`super::parse_recipe`] reads. Amounts by
 /// mass are written in g, by volume in mL.
 pub fn recipe_to_toml(recipe: &Recipe) -> String {
     use std::fmt::Write as _;
@@ -34,7 +34,7 @@ pub fn recipe_to_toml(recipe: &Recipe) -> String {
 }
 
 /// The `[[solute]]` and `[[ingredient]]` tables of a user's own items, each
-/// starting with a blank line, in the format [`parse_recipe`] reads: a recipe file
+/// starting with a blank line, in the format [`super::parse_recipe`] reads: a recipe file
 /// writes them before its lines, and a characterisation appends them to a file.
 pub fn own_items_toml(solutes: &[Solute], ingredients: &[Ingredient]) -> String {
     use std::fmt::Write as _;

@@ -56,9 +56,10 @@ impl Store {
         setting: &crate::batch::compare::Setting<'_>,
     ) -> Result<Vec<(crate::measure::Comparison, Option<f64>)>> {
         let mut pairs = Vec::new();
+        let mut now = crate::batch::compare::Recomputed::new();
         self.each_batch(filter, |b| {
             pairs.extend(crate::batch::compare::measured_pairs(
-                b, setting, style, kind,
+                b, setting, style, kind, &mut now,
             ));
             Ok(())
         })?;
