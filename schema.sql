@@ -200,3 +200,50 @@ UPDATE sqlite_schema
    SET sql = replace(sql, ' CHECK (json_valid(analysis))', '')
  WHERE type = 'table' AND name = 'batch_predictions';
 PRAGMA writable_schema = OFF;
+
+-- migration 3
+-- Calibration, never silent. A correction fitted from logged batches (an offset added to
+-- a prediction of one measured kind, for one recipe or one style) is kept as a numbered
+-- version per (kind, scope, scope_name); `correction` is its JSON (offset, unit, the
+-- batches it rests on, the shrinkage, and its basis in words). Turning a correction on
+-- or off is a row of calibration_switches naming the version put in force (NULL: off).
+-- The correction in force for a kind and scope is the one its latest switch names. Both
+-- tables are append-only, like the records they are fitted from.
+CREATE TABLE calibrations (
+    id          INTEGER PRIMARY KEY,
+    kind        TEXT NOT NULL,
+    scope       TEXT NOT NULL CHECK (scope IN ('style', 'recipe')),
+    scope_name  TEXT NOT NULL,
+    version     INTEGER NOT NULL CHECK (version >= 1),
+    correction  TEXT NOT NULL,
+    fitted_at   TEXT NOT NULL,
+    fitted_by   TEXT NOT NULL,
+    UNIQUE (kind, scope, scope_name, version)
+) STRICT;
+
+CREATE TABLE calibration_switches (
+    id              INTEGER PRIMARY KEY,
+    kind            TEXT NOT NULL,
+    scope           TEXT NOT NULL CHECK (scope IN ('style', 'recipe')),
+    scope_name      TEXT NOT NULL,
+    calibration_id  INTEGER REFERENCES calibrations(id),
+    switched_at     TEXT NOT NULL,
+    switched_by     TEXT NOT NULL
+) STRICT;
+CREATE INDEX calibration_switches_by_scope ON calibration_switches (kind, scope, scope_name, id);
+
+CREATE TRIGGER calibration_switches_name_their_scope BEFORE INSERT ON calibration_switches
+WHEN NEW.calibration_id IS NOT NULL AND NOT EXISTS (
+    SELECT 1 FROM calibrations c WHERE c.id = NEW.calibration_id AND c.kind = NEW.kind
+       AND c.scope = NEW.scope AND c.scope_name = NEW.scope_name)
+BEGIN
+    SELECT RAISE(ABORT, 'a switch puts in force a correction of its own kind and scope');
+END;
+CREATE TRIGGER calibrations_append_only_update BEFORE UPDATE ON calibrations
+BEGIN SELECT RAISE(ABORT, 'a calibration version is never changed; fit a new one'); END;
+CREATE TRIGGER calibrations_append_only_delete BEFORE DELETE ON calibrations
+BEGIN SELECT RAISE(ABORT, 'a calibration version is never deleted'); END;
+CREATE TRIGGER calibration_switches_append_only_update BEFORE UPDATE ON calibration_switches
+BEGIN SELECT RAISE(ABORT, 'a calibration switch is never changed; switch again'); END;
+CREATE TRIGGER calibration_switches_append_only_delete BEFORE DELETE ON calibration_switches
+BEGIN SELECT RAISE(ABORT, 'a calibration switch is never deleted'); END;

@@ -11,6 +11,7 @@ pub mod csv;
 pub mod export;
 pub mod jsonl;
 pub mod plan;
+pub mod reading;
 mod types;
 pub mod validate;
 pub mod version;

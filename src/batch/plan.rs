@@ -9,6 +9,7 @@ use super::amend::{LineRef, resolve_lines};
 use super::types::{BatchLine, NewBatch};
 use crate::analysis::{Options, analyze};
 use crate::catalog::Catalog;
+use crate::measure::{DEFAULT_DRAW_FROZEN_FRACTION, Predictions, predict};
 use crate::model::units::parse_amount;
 use crate::model::{Amount, MassUnit, Recipe};
 use crate::report::json::analysis_json;
@@ -52,8 +53,23 @@ fn analysis_error(e: impl std::fmt::Display) -> Invalid {
 }
 
 /// Scales the recipe, analyses it (against `catalog`, with `options`), and
-/// builds the new batch.
+/// builds the new batch, with the draw temperature predicted at the default
+/// draw share ([`DEFAULT_DRAW_FROZEN_FRACTION`]).
 pub fn plan_batch(plan: &Plan<'_>, catalog: &Catalog, options: &Options) -> Result<NewBatch> {
+    plan_batch_drawn(plan, catalog, options, DEFAULT_DRAW_FROZEN_FRACTION)
+}
+
+/// As [`plan_batch`], with the draw temperature predicted at
+/// `draw_frozen_fraction` (0..1) of the water frozen. The prediction recorded
+/// is the analysis' public JSON plus what the measurement loop predicts beside
+/// it: `brix` (what a refractometer reads; null with `brix_refused` saying why),
+/// `draw_temp_c` and `draw_frozen_fraction`.
+pub fn plan_batch_drawn(
+    plan: &Plan<'_>,
+    catalog: &Catalog,
+    options: &Options,
+    draw_frozen_fraction: f64,
+) -> Result<NewBatch> {
     let base = analyze(plan.recipe, catalog, options).map_err(analysis_error)?;
     let factor = match plan.size {
         Amount::Grams(g) => g / base.mass_g,
@@ -95,8 +111,23 @@ pub fn plan_batch(plan: &Plan<'_>, catalog: &Catalog, options: &Options) -> Resu
         operator: plan.operator.to_owned(),
         lines,
         note: plan.note.map(str::to_owned),
-        prediction: analysis_json(&analysis),
+        prediction: with_loop_predictions(
+            analysis_json(&analysis),
+            &predict(&scaled, catalog, draw_frozen_fraction).map_err(analysis_error)?,
+        ),
     })
+}
+
+/// The analysis JSON with the measurement loop's predictions added (its keys untouched).
+fn with_loop_predictions(mut json: serde_json::Value, p: &Predictions) -> serde_json::Value {
+    let round = |x: f64| (x * 1000.0).round() / 1000.0;
+    if let Some(object) = json.as_object_mut() {
+        object.insert("brix".into(), p.brix.map(round).into());
+        object.insert("brix_refused".into(), p.brix_refused.clone().into());
+        object.insert("draw_temp_c".into(), p.draw_temp_c.map(round).into());
+        object.insert("draw_frozen_fraction".into(), p.draw_frozen_fraction.into());
+    }
+    json
 }
 
 #[cfg(test)]

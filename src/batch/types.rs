@@ -90,11 +90,14 @@ pub enum MeasurementKind {
     PasteuriseTempC,
     /// Pasteurisation hold (s).
     PasteuriseTimeS,
+    /// A cryoscope reading of the freezing point in degrees Hortvet (°H), kept as
+    /// taken; it is recorded beside it converted to °C (see [`crate::batch::reading`]).
+    FreezingPointH,
 }
 
 impl MeasurementKind {
     /// Every kind, in the order they are listed to the user.
-    pub const ALL: [MeasurementKind; 11] = [
+    pub const ALL: [MeasurementKind; 12] = [
         MeasurementKind::Brix,
         MeasurementKind::Ph,
         MeasurementKind::OverrunPct,
@@ -106,6 +109,7 @@ impl MeasurementKind {
         MeasurementKind::TitratableAcidityPct,
         MeasurementKind::PasteuriseTempC,
         MeasurementKind::PasteuriseTimeS,
+        MeasurementKind::FreezingPointH,
     ];
 
     /// The kebab-case name used on the command line and in JSON.
@@ -122,6 +126,7 @@ impl MeasurementKind {
             MeasurementKind::TitratableAcidityPct => "titratable-acidity-pct",
             MeasurementKind::PasteuriseTempC => "pasteurise-temp-c",
             MeasurementKind::PasteuriseTimeS => "pasteurise-time-s",
+            MeasurementKind::FreezingPointH => "freezing-point-h",
         }
     }
 
@@ -138,16 +143,21 @@ impl MeasurementKind {
             MeasurementKind::MassG => "g",
             MeasurementKind::AbvPct => "% vol",
             MeasurementKind::PasteuriseTimeS => "s",
+            MeasurementKind::FreezingPointH => "°H",
         }
     }
 
-    /// The key of the prediction this kind is compared with, if any.
+    /// The key of the prediction this kind is compared with in a batch's
+    /// recorded prediction, if gelu predicts the kind (`brix` and `draw_temp_c`
+    /// are recorded since this version; older batches lack them).
     pub fn prediction_key(self) -> Option<&'static str> {
         match self {
             MeasurementKind::FreezingPointC => Some("freezing_point_c"),
             MeasurementKind::ServingTempC => Some("serving_temp_c"),
             MeasurementKind::MassG => Some("mass_g"),
             MeasurementKind::AbvPct => Some("abv_pct"),
+            MeasurementKind::Brix => Some("brix"),
+            MeasurementKind::DrawTempC => Some("draw_temp_c"),
             _ => None,
         }
     }

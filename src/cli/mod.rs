@@ -3,7 +3,9 @@
 //! Only this module and `main` decide exit codes.
 
 mod batch;
+mod characterise;
 mod db;
+pub mod own;
 mod report;
 
 use std::path::PathBuf;
@@ -28,6 +30,8 @@ pub struct Cli {
 pub enum Command {
     /// Analyse recipe files: freezing point, frozen share, composition, warnings.
     Report(report::ReportArgs),
+    /// Characterise an ingredient from measured freezing points of known dilutions.
+    Characterise(characterise::CharacteriseArgs),
     /// The batch log: record, list, show, measure, finalize, amend, export, import.
     Batch(batch::BatchArgs),
     /// The batch-log database: path, check, backup.
@@ -47,7 +51,8 @@ fn workspace(db: Option<PathBuf>, file: Option<PathBuf>) -> anyhow::Result<ExitC
 pub fn run() -> ExitCode {
     let cli = Cli::parse();
     let outcome = match cli.command {
-        Some(Command::Report(args)) => report::run(&args),
+        Some(Command::Report(args)) => report::run(&args, cli.db.as_deref()),
+        Some(Command::Characterise(args)) => characterise::run(&args),
         Some(Command::Batch(args)) => batch::run(&args, cli.db.as_deref()),
         Some(Command::Db(args)) => db::run(&args, cli.db.as_deref()),
         Some(Command::Edit { file }) => workspace(cli.db, Some(file)),

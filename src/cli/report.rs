@@ -8,10 +8,10 @@ use std::process::ExitCode;
 
 use crate::analysis::{Options, analyze};
 use crate::catalog::Catalog;
-use crate::model::Recipe;
 use crate::model::TempUnit;
 use crate::model::units::{parse_freezing_temp, parse_share};
-use crate::recipe_file::{parse_recipe, read_recipe};
+use crate::model::{OwnItems, Recipe};
+use crate::recipe_file::{parse_recipe, read_recipe_using};
 use crate::report::json::write_analysis_json;
 use crate::report::text::report_text;
 use crate::samples::SAMPLE_RECIPES;
@@ -61,11 +61,12 @@ fn emit(
 /// The report of one file, or why there is none.
 fn report_file(
     path: &Path,
+    own: &OwnItems,
     options: &Options,
     json: bool,
     unit: TempUnit,
 ) -> Result<Vec<u8>, String> {
-    let (recipe, _) = read_recipe(path).map_err(|e| e.to_string())?;
+    let (recipe, _, _) = read_recipe_using(path, own).map_err(|e| e.to_string())?;
     let mut buf = Vec::with_capacity(if json { 6 << 10 } else { 4 << 10 });
     emit(&mut buf, &recipe, options, json, unit).map_err(|e| format!("{}: {e}", path.display()))?;
     Ok(buf)
@@ -78,6 +79,7 @@ const FILES_PER_ROUND: usize = 512;
 /// Reports `files` on all cores, returning the outcomes in file order.
 fn report_round(
     files: &[PathBuf],
+    own: &OwnItems,
     options: &Options,
     json: bool,
     unit: TempUnit,
@@ -93,7 +95,7 @@ fn report_round(
                 scope.spawn(move || {
                     chunk
                         .iter()
-                        .map(|p| report_file(p, options, json, unit))
+                        .map(|p| report_file(p, own, options, json, unit))
                         .collect::<Vec<_>>()
                 })
             })
@@ -108,8 +110,15 @@ fn report_round(
     })
 }
 
-/// Runs `gelu report`.
-pub fn run(args: &ReportArgs) -> anyhow::Result<ExitCode> {
+/// Runs `gelu report`; recipes may use the user's own items in the batch log
+/// (`db`, else the default log, read only).
+pub fn run(args: &ReportArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
+    // A log that cannot be read stops no report: recipes that need none of its
+    // items still report, and one that does says which id is unknown.
+    let own = super::own::load_own_items(db).unwrap_or_else(|e| {
+        eprintln!("gelu: your own items could not be read from the batch log: {e:#}");
+        OwnItems::default()
+    });
     // JSON carries °C only, its messages included.
     let unit = if args.fahrenheit && !args.json {
         TempUnit::Fahrenheit
@@ -126,7 +135,7 @@ pub fn run(args: &ReportArgs) -> anyhow::Result<ExitCode> {
     let mut out = BufWriter::new(stdout.lock());
     let mut failed = 0usize;
     for round in args.files.chunks(FILES_PER_ROUND) {
-        for outcome in report_round(round, &options, args.json, unit) {
+        for outcome in report_round(round, &own, &options, args.json, unit) {
             match outcome {
                 Ok(bytes) => out.write_all(&bytes)?,
                 Err(message) => {

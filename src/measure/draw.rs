@@ -13,6 +13,19 @@ pub const DEFAULT_DRAW_FROZEN_FRACTION: f64 = 0.5;
 pub const DRAW_FROZEN_FRACTION_SOURCE: &str =
     "about half the water is frozen at draw (McGee, On Food and Cooking)";
 
+/// The batch log's setting that holds the share of water frozen at draw (0..1)
+/// a kitchen's freezer draws at.
+pub const DRAW_FROZEN_FRACTION_SETTING: &str = "measure.draw_frozen_fraction";
+
+/// The draw share a stored setting gives: the value when it is a share above 0
+/// and below 1, else [`DEFAULT_DRAW_FROZEN_FRACTION`].
+pub fn draw_frozen_fraction_from_setting(value: Option<&str>) -> f64 {
+    value
+        .and_then(|v| v.trim().parse::<f64>().ok())
+        .filter(|x| *x > 0.0 && *x < 1.0)
+        .unwrap_or(DEFAULT_DRAW_FROZEN_FRACTION)
+}
+
 /// The temperature (°C) at which `frozen_fraction` (0..1) of the recipe's water
 /// is frozen; `None` when the mix never freezes that far above −60 °C.
 /// Uses the same freezing curve as the serving temperature.

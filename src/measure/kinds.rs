@@ -48,7 +48,7 @@ const fn kind(
 }
 
 /// Every kind the log has, in the log's order (common practice, see the module notes).
-pub const KINDS: [KindDefaults; 11] = [
+pub const KINDS: [KindDefaults; 12] = [
     kind("brix", "°Bx", true, 0.2, 0.3, 1.0),
     kind("ph", "pH", false, 0.05, 0.05, 0.2),
     kind("overrun-pct", "%", false, 2.0, 5.0, 10.0),
@@ -60,6 +60,8 @@ pub const KINDS: [KindDefaults; 11] = [
     kind("titratable-acidity-pct", "%", false, 0.01, 0.02, 0.05),
     kind("pasteurise-temp-c", "K", false, 0.3, 0.3, 1.0),
     kind("pasteurise-time-s", "s", false, 1.0, 2.0, 10.0),
+    // A cryoscope's own reading (°H); its °C twin is what is compared.
+    kind("freezing-point-h", "°H", false, 0.005, 0.05, 0.2),
 ];
 
 /// The kinds gelu predicts.

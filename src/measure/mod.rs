@@ -66,7 +66,10 @@ pub use compare::{
     BatchOff, ChartPoint, CompareError, Comparison, FLAG_SIGMAS, KindSummary, WORST_BATCHES,
     likely_causes, summarise,
 };
-pub use draw::{DEFAULT_DRAW_FROZEN_FRACTION, DRAW_FROZEN_FRACTION_SOURCE, predicted_draw_temp_c};
+pub use draw::{
+    DEFAULT_DRAW_FROZEN_FRACTION, DRAW_FROZEN_FRACTION_SETTING, DRAW_FROZEN_FRACTION_SOURCE,
+    draw_frozen_fraction_from_setting, predicted_draw_temp_c,
+};
 pub use kinds::{KINDS, KindDefaults, PREDICTED_KINDS, defaults as kind_defaults};
 pub use predict::{Predictions, predict};
 pub use refractometer::{

@@ -9,7 +9,8 @@ use std::path::Path;
 
 use toml_edit::{ArrayOfTables, DocumentMut, Item, Table, Value};
 
-use crate::model::{Amount, Line, Recipe};
+use crate::model::{Amount, Line, OwnItems, Recipe};
+use crate::recipe_file::read::parse_recipe_leaning_on;
 use crate::recipe_file::{parse_recipe, recipe_to_toml};
 
 /// The new text of a recipe file, and whether comments and layout were kept.
@@ -33,7 +34,13 @@ pub fn rewrite(path: &Path, original: Option<&str>, recipe: &Recipe) -> Rewritte
     let Ok(mut doc) = original.parse::<DocumentMut>() else {
         return fresh();
     };
-    let Ok(before) = parse_recipe(path, original) else {
+    // The file as it stands, which may lean on the user's own items from the log
+    // (the recipe carries copies of them, to be written into the file).
+    let library = OwnItems {
+        solutes: recipe.solutes.clone(),
+        ingredients: recipe.ingredients.clone(),
+    };
+    let Ok(before) = parse_recipe_leaning_on(path, original, &library) else {
         return fresh();
     };
     edit(&mut doc, &before, recipe);

@@ -11,16 +11,24 @@
 //! g = 480            # or kg = 0.48, ml = 500, l = 0.5
 //! ```
 
+mod append;
 mod edit;
+mod library;
 mod read;
+mod save;
 mod write;
 
 use std::fmt;
 use std::path::PathBuf;
 
+pub use append::{AppendRefused, append_own_items};
 pub use edit::{Rewritten, rewrite};
-pub use read::{parse_recipe, parse_recipe_with, read_recipe};
-pub use write::recipe_to_toml;
+pub use library::{own_item_definition, own_items_in, read_own_items};
+pub use read::{
+    parse_recipe, parse_recipe_using, parse_recipe_with, read_recipe, read_recipe_using,
+};
+pub use save::{Expect, SaveError, save_text};
+pub use write::{own_items_toml, recipe_to_toml};
 
 /// A recipe file that cannot be read, with where and why.
 #[derive(Debug, Clone, PartialEq)]

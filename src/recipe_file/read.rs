@@ -9,7 +9,7 @@ use serde::Deserialize;
 use toml::Spanned;
 
 use crate::catalog::{Catalog, CatalogError, IngredientTable, suggest_text};
-use crate::model::{Amount, Line, Recipe, Solute, SoluteKind, Style};
+use crate::model::{Amount, Ingredient, Line, OwnItems, Recipe, Solute, SoluteKind, Style};
 use crate::thermo::binary::WaterModel;
 
 use super::RecipeFileError;
@@ -98,14 +98,18 @@ impl Ctx<'_> {
 
 /// Reads and parses a recipe file. Returns the recipe and the file's text.
 pub fn read_recipe(path: &Path) -> Result<(Recipe, String), RecipeFileError> {
-    let text = std::fs::read_to_string(path).map_err(|e| RecipeFileError {
+    let text = read_text(path)?;
+    let recipe = parse_recipe(path, &text)?;
+    Ok((recipe, text))
+}
+
+fn read_text(path: &Path) -> Result<String, RecipeFileError> {
+    std::fs::read_to_string(path).map_err(|e| RecipeFileError {
         path: path.to_path_buf(),
         line: 0,
         column: 0,
         message: format!("cannot read the file: {e}"),
-    })?;
-    let recipe = parse_recipe(path, &text)?;
-    Ok((recipe, text))
+    })
 }
 
 /// Parses recipe TOML `text` (from `path`, for messages), checking every id
@@ -119,6 +123,74 @@ pub fn parse_recipe_with(
     path: &Path,
     text: &str,
     catalog: &Catalog,
+) -> Result<Recipe, RecipeFileError> {
+    parse(path, text, catalog, &OwnItems::default(), None)
+}
+
+/// Reads and parses a recipe file that may use the user's own items (`own`,
+/// from the batch log); see [`parse_recipe_using`]. Returns the recipe and the
+/// file's text and the library items copied into the recipe.
+pub fn read_recipe_using(
+    path: &Path,
+    own: &OwnItems,
+) -> Result<(Recipe, String, OwnItems), RecipeFileError> {
+    let text = read_text(path)?;
+    let (recipe, borrowed) = parse_recipe_using(path, &text, own)?;
+    Ok((recipe, text, borrowed))
+}
+
+/// Parses recipe TOML that may use the user's own solutes and ingredients
+/// (`own`, from the batch log) besides the built-in ones and its own. The file's
+/// own items come first: one of the same id shadows the library's, and a
+/// built-in id shadows both. The library items the recipe uses are copied into
+/// the recipe ([`Recipe::solutes`], [`Recipe::ingredients`]), so that it
+/// analyses, saves and records without the log; they are also returned, as
+/// what the file's text lacks.
+pub fn parse_recipe_using(
+    path: &Path,
+    text: &str,
+    own: &OwnItems,
+) -> Result<(Recipe, OwnItems), RecipeFileError> {
+    let mut borrowed = OwnItems::default();
+    let recipe = parse(path, text, Catalog::builtin(), own, Some(&mut borrowed))?;
+    Ok((recipe, borrowed))
+}
+
+/// As [`parse_recipe_using`], but without copying the library items in: the
+/// recipe as the file itself states it (for comparing with an edited recipe).
+pub(super) fn parse_recipe_leaning_on(
+    path: &Path,
+    text: &str,
+    own: &OwnItems,
+) -> Result<Recipe, RecipeFileError> {
+    parse(path, text, Catalog::builtin(), own, None)
+}
+
+/// The library items that neither the catalog nor the file define.
+fn library_layer(catalog: &Catalog, own: &OwnItems, file_ids: &[&str]) -> OwnItems {
+    let free = |id: &str| catalog.ingredient(id).is_none() && !file_ids.contains(&id);
+    OwnItems {
+        solutes: own
+            .solutes
+            .iter()
+            .filter(|s| free(&s.id))
+            .cloned()
+            .collect(),
+        ingredients: own
+            .ingredients
+            .iter()
+            .filter(|i| free(&i.id))
+            .cloned()
+            .collect(),
+    }
+}
+
+fn parse(
+    path: &Path,
+    text: &str,
+    catalog: &Catalog,
+    own: &OwnItems,
+    adopted: Option<&mut OwnItems>,
 ) -> Result<Recipe, RecipeFileError> {
     let ctx = Ctx { path, text };
     let doc: RecipeDoc = toml::from_str(text).map_err(|e| {
@@ -170,12 +242,25 @@ pub fn parse_recipe_with(
         .collect::<Result<Vec<_>, _>>()?;
     // Validate the user's own items, pointing at the one at fault. (Without any, the
     // catalog is used as it is: no copy per file.)
+    let file_ids: Vec<&str> = solutes
+        .iter()
+        .map(|s| s.id.as_str())
+        .chain(ingredients.iter().map(|i| i.id.as_str()))
+        .collect();
+    let library = library_layer(catalog, own, &file_ids);
     let extended;
-    let catalog = if solutes.is_empty() && ingredients.is_empty() {
+    let catalog = if solutes.is_empty() && ingredients.is_empty() && library.is_empty() {
         catalog
     } else {
+        let all_solutes: Vec<Solute> = library.solutes.iter().chain(&solutes).cloned().collect();
+        let all_ingredients: Vec<Ingredient> = library
+            .ingredients
+            .iter()
+            .chain(&ingredients)
+            .cloned()
+            .collect();
         extended = catalog
-            .with_additions(&solutes, &ingredients)
+            .with_additions(&all_solutes, &all_ingredients)
             .map_err(|e| {
                 let id = catalog_error_id(&e);
                 let span = doc
@@ -207,7 +292,7 @@ pub fn parse_recipe_with(
         let span = doc.line.first().map_or(doc.name.span(), |l| l.span());
         return Err(ctx.err(span, "the recipe's lines add up to nothing: give at least one line an amount above zero (`[[line]]` with `g = ...`)"));
     }
-    Ok(Recipe {
+    let mut recipe = Recipe {
         name,
         style,
         notes: doc.notes.unwrap_or_default(),
@@ -215,7 +300,27 @@ pub fn parse_recipe_with(
         solutes,
         ingredients,
         lines,
-    })
+    };
+    if let Some(adopted) = adopted
+        && !library.is_empty()
+    {
+        let file_solute_ids: Vec<String> = recipe
+            .ingredients
+            .iter()
+            .flat_map(|i| i.solutes_pct.keys().cloned())
+            .collect();
+        let used = library.used_by(
+            recipe
+                .lines
+                .iter()
+                .map(|l| l.ingredient.as_str())
+                .chain(file_solute_ids.iter().map(String::as_str)),
+        );
+        recipe.solutes.extend(used.solutes.iter().cloned());
+        recipe.ingredients.extend(used.ingredients.iter().cloned());
+        *adopted = used;
+    }
+    Ok(recipe)
 }
 
 fn catalog_error_id(e: &CatalogError) -> &str {

@@ -1,10 +1,10 @@
 //! Writing a recipe as a fresh TOML file in the format [`super::parse_recipe`]
 //! reads (for a new file, or when a file's own layout cannot be kept).
 
-use crate::model::{Amount, Recipe};
+use crate::model::{Amount, Ingredient, Recipe, Solute};
 use crate::thermo::binary::WaterModel;
 
-/// Writes a recipe as TOML in the format [`parse_recipe`] reads. Amounts by
+/// Writes a recipe as TOML in the format [`super::parse_recipe`] reads. Amounts by
 /// mass are written in g, by volume in mL.
 pub fn recipe_to_toml(recipe: &Recipe) -> String {
     use std::fmt::Write as _;
@@ -18,7 +18,29 @@ pub fn recipe_to_toml(recipe: &Recipe) -> String {
     if let Some(t) = recipe.serving_frozen_fraction {
         let _ = writeln!(out, "serving_target = {t}");
     }
-    for s in &recipe.solutes {
+    out.push_str(&own_items_toml(&recipe.solutes, &recipe.ingredients));
+    for l in &recipe.lines {
+        let (key, v) = match l.amount {
+            Amount::Grams(g) => ("g", g),
+            Amount::Millilitres(ml) => ("ml", ml),
+        };
+        let _ = write!(
+            out,
+            "\n[[line]]\ningredient = {}\n{key} = {v:?}\n",
+            q(&l.ingredient)
+        );
+    }
+    out
+}
+
+/// The `[[solute]]` and `[[ingredient]]` tables of a user's own items, each
+/// starting with a blank line, in the format [`super::parse_recipe`] reads: a recipe file
+/// writes them before its lines, and a characterisation appends them to a file.
+pub fn own_items_toml(solutes: &[Solute], ingredients: &[Ingredient]) -> String {
+    use std::fmt::Write as _;
+    let q = |s: &str| toml::Value::String(s.to_string()).to_string();
+    let mut out = String::new();
+    for s in solutes {
         let _ = write!(
             out,
             "\n[[solute]]\nid = {}\nname = {}\nmolar_mass_g_mol = {:?}\ndissociation = {:?}\n",
@@ -35,8 +57,11 @@ pub fn recipe_to_toml(recipe: &Recipe) -> String {
         if let Some(sw) = s.sweetness {
             let _ = writeln!(out, "sweetness = {sw:?}");
         }
+        if !s.source.is_empty() {
+            let _ = writeln!(out, "source = {}", q(&s.source));
+        }
     }
-    for i in &recipe.ingredients {
+    for i in ingredients {
         let _ = write!(
             out,
             "\n[[ingredient]]\nid = {}\nname = {}\ncategory = {}\n",
@@ -67,17 +92,9 @@ pub fn recipe_to_toml(recipe: &Recipe) -> String {
             let a: Vec<String> = i.allergens.iter().map(|a| q(a)).collect();
             let _ = writeln!(out, "allergens = [{}]", a.join(", "));
         }
-    }
-    for l in &recipe.lines {
-        let (key, v) = match l.amount {
-            Amount::Grams(g) => ("g", g),
-            Amount::Millilitres(ml) => ("ml", ml),
-        };
-        let _ = write!(
-            out,
-            "\n[[line]]\ningredient = {}\n{key} = {v:?}\n",
-            q(&l.ingredient)
-        );
+        if !i.source.is_empty() {
+            let _ = writeln!(out, "source = {}", q(&i.source));
+        }
     }
     out
 }

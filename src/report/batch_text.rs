@@ -6,8 +6,11 @@ use std::fmt::Write as _;
 
 use chrono::{DateTime, Utc};
 
-use crate::batch::compare::{comparisons, readings};
+use crate::batch::MeasurementKind;
+use crate::batch::compare::{Comparison, PredictedFrom, Setting, comparisons, readings};
 use crate::batch::{Batch, BatchSummary};
+use crate::measure;
+use crate::measure::cryoscope::hortvet_to_celsius;
 
 fn grams(g: f64) -> String {
     format!("{g:.1}")
@@ -32,8 +35,32 @@ pub fn summary_line(r: &BatchSummary) -> String {
     )
 }
 
-/// The whole record as text.
-pub fn batch_text(b: &Batch) -> String {
+/// "predicted -2.79", with where it comes from when not recorded and the
+/// corrected figure beside it when a correction is on.
+fn prediction_text(c: &Comparison) -> String {
+    let Some(p) = c.predicted else {
+        return String::new();
+    };
+    let mut text = format!("predicted {p:.2}");
+    if c.predicted_from == PredictedFrom::RecipeText {
+        text.push_str(" (computed now from the recorded recipe)");
+    }
+    if let Some(k) = &c.calibrated {
+        let difference = c
+            .calibrated_difference()
+            .map(|d| format!(", difference {d:+.2}"))
+            .unwrap_or_default();
+        text.push_str(&format!(
+            " [calibrated {:.2}{difference}: {}]",
+            k.value, k.basis
+        ));
+    }
+    text
+}
+
+/// The whole record as text, its readings set against its predictions
+/// (`setting`: the catalog, draw share and corrections in force).
+pub fn batch_text(b: &Batch, setting: &Setting<'_>) -> String {
     let mut out = String::new();
     let mut line = |s: String| {
         let _ = writeln!(out, "{s}");
@@ -69,21 +96,33 @@ pub fn batch_text(b: &Batch) -> String {
     }
     line(String::new());
     line("measured against predicted".into());
-    for c in comparisons(b) {
-        if let (Some(p), None) = (c.predicted, c.measured) {
+    let compared = comparisons(b, setting);
+    for c in &compared {
+        if let (Some(_), None) = (c.predicted, c.measured) {
             line(format!(
-                "  {:<22} {:>10} {:<6} predicted {p:.2}",
+                "  {:<22} {:>10} {:<6} {}",
                 c.kind.as_str(),
                 "-",
-                c.kind.unit()
+                c.kind.unit(),
+                prediction_text(c)
             ));
         }
     }
-    for r in readings(b) {
+    for r in readings(b, &compared) {
         let m = r.measurement;
-        let against = match (r.predicted, r.difference()) {
-            (Some(p), Some(d)) => format!("predicted {p:.2}, difference {d:+.2}"),
-            _ => String::new(),
+        let c = compared.iter().find(|c| c.kind == m.kind);
+        let against = match (c, r.difference()) {
+            (Some(c), Some(d)) => format!("{}, difference {d:+.2}", prediction_text(c)),
+            (Some(c), None) => c
+                .no_prediction
+                .as_ref()
+                .map(|why| format!("no prediction: {why}"))
+                .unwrap_or_default(),
+            (None, _) if m.kind == MeasurementKind::FreezingPointH => format!(
+                "= {:.3} °C by the IDF line, compared as freezing-point-c",
+                hortvet_to_celsius(m.value)
+            ),
+            (None, _) => String::new(),
         };
         line(format!(
             "  {:<22} {:>10} {:<6} {against}  ({} by {})",
@@ -92,6 +131,15 @@ pub fn batch_text(b: &Batch) -> String {
             m.kind.unit(),
             minute_text(&m.taken_at),
             m.by
+        ));
+    }
+    for c in compared.iter().filter(|c| c.far_off()) {
+        let d = c.calibrated_difference().or(c.difference()).unwrap_or(0.0);
+        line(format!(
+            "  far off: {} is {d:+.2} {} from its prediction; likely causes: {}",
+            c.kind.as_str(),
+            measure::kind_defaults(c.kind.as_str()).map_or("", |k| k.difference_unit),
+            c.likely_causes.join("; ")
         ));
     }
     if !b.notes.is_empty() {

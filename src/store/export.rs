@@ -44,6 +44,29 @@ impl Store {
 }
 
 impl Store {
+    /// Every measured figure of the batches `filter` selects that has a
+    /// prediction, oldest first, as [`crate::batch::compare::measured_pairs`]
+    /// pairs them (of `style` and `kind` when given, with the corrections of
+    /// `setting`).
+    pub fn measured_pairs(
+        &self,
+        filter: &BatchFilter,
+        style: Option<crate::model::Style>,
+        kind: Option<crate::batch::MeasurementKind>,
+        setting: &crate::batch::compare::Setting<'_>,
+    ) -> Result<Vec<(crate::measure::Comparison, Option<f64>)>> {
+        let mut pairs = Vec::new();
+        let mut now = crate::batch::compare::Recomputed::new();
+        self.each_batch(filter, |b| {
+            pairs.extend(crate::batch::compare::measured_pairs(
+                b, setting, style, kind, &mut now,
+            ));
+            Ok(())
+        })?;
+        pairs.reverse();
+        Ok(pairs)
+    }
+
     /// Writes every batch matching `filter` to `out` in `format` (the forms are
     /// the batch domain's, [`crate::batch::export`]); returns how many were written.
     pub fn export(

@@ -9,12 +9,15 @@
 //! - [`tx`]: immediate write transactions with a bounded retry.
 //! - `recipes`, `batches`, `records`: writing records; `record`, `list`: reading them.
 //! - `import` (with `guards` and `checkpoint`): JSON Lines in; [`Store::each_batch`]: out.
+//! - `calibrations`: the versions of the corrections fitted from batches, and
+//!   the switches that put them in force.
 //!
 //! Every write is one transaction: a crash or a refused request leaves nothing half
 //! written. Final records are never updated in place; triggers in the schema enforce it.
 
 pub mod backup;
 mod batches;
+mod calibrations;
 mod checkpoint;
 mod columns;
 mod error;
@@ -37,6 +40,7 @@ use std::path::{Path, PathBuf};
 
 use rusqlite::Connection;
 
+pub use calibrations::{CalibrationSwitch, CalibrationVersion, scope_words};
 pub use error::{Result, StoreError};
 pub use types::*;
 
@@ -64,6 +68,25 @@ impl Store {
             path: path.to_path_buf(),
             migrated,
         })
+    }
+
+    /// Opens an existing batch log to read only: nothing is created, migrated or
+    /// written, and a log of an older schema is read as it is. `None` when the
+    /// file holds no log yet.
+    pub fn open_read_only(path: &Path) -> Result<Option<Store>> {
+        let (conn, version) = open::connect_read_only(path)?;
+        if version == 0 {
+            return Ok(None);
+        }
+        Ok(Some(Store {
+            conn,
+            path: path.to_path_buf(),
+            migrated: migrate::Migrated {
+                from: version,
+                to: version,
+                backup: None,
+            },
+        }))
     }
 
     /// Opens the batch log in the platform's data directory, creating the folder.

@@ -39,20 +39,9 @@ fn probe(conn: &Connection) -> rusqlite::Result<Probe> {
     })
 }
 
-/// Opens (creating if needed) the file, refuses files that are not ours or too new,
-/// and applies the connection settings. Does not migrate.
-pub fn connect(path: &Path) -> Result<Connection> {
-    let flags = OpenFlags::SQLITE_OPEN_READ_WRITE
-        | OpenFlags::SQLITE_OPEN_CREATE
-        | OpenFlags::SQLITE_OPEN_NO_MUTEX;
-    let conn = Connection::open_with_flags(path, flags).map_err(|e| classify(path, e))?;
-    conn.busy_timeout(tx::BUSY_TIMEOUT)?;
-    if conn.is_readonly(MAIN_DB)? {
-        return Err(StoreError::ReadOnly {
-            path: path.to_path_buf(),
-        });
-    }
-    let found = tx::retry(path, || probe(&conn).map_err(|e| classify(path, e)))?;
+/// Refuses a file newer than this program, or one that is not a gelu log (an
+/// empty file is neither).
+fn refuse_foreign(path: &Path, found: &Probe) -> Result<()> {
     let supported = migrate::latest_version();
     if found.version > supported {
         return Err(StoreError::TooNew {
@@ -67,6 +56,35 @@ pub fn connect(path: &Path) -> Result<Connection> {
             path: path.to_path_buf(),
         });
     }
+    Ok(())
+}
+
+/// Opens an existing file to read only (nothing is created or written), refusing
+/// files that are not ours or too new. Returns the connection and the schema version.
+pub fn connect_read_only(path: &Path) -> Result<(Connection, i64)> {
+    let flags = OpenFlags::SQLITE_OPEN_READ_ONLY | OpenFlags::SQLITE_OPEN_NO_MUTEX;
+    let conn = Connection::open_with_flags(path, flags).map_err(|e| classify(path, e))?;
+    conn.busy_timeout(tx::BUSY_TIMEOUT)?;
+    let found = tx::retry(path, || probe(&conn).map_err(|e| classify(path, e)))?;
+    refuse_foreign(path, &found)?;
+    Ok((conn, found.version))
+}
+
+/// Opens (creating if needed) the file, refuses files that are not ours or too new,
+/// and applies the connection settings. Does not migrate.
+pub fn connect(path: &Path) -> Result<Connection> {
+    let flags = OpenFlags::SQLITE_OPEN_READ_WRITE
+        | OpenFlags::SQLITE_OPEN_CREATE
+        | OpenFlags::SQLITE_OPEN_NO_MUTEX;
+    let conn = Connection::open_with_flags(path, flags).map_err(|e| classify(path, e))?;
+    conn.busy_timeout(tx::BUSY_TIMEOUT)?;
+    if conn.is_readonly(MAIN_DB)? {
+        return Err(StoreError::ReadOnly {
+            path: path.to_path_buf(),
+        });
+    }
+    let found = tx::retry(path, || probe(&conn).map_err(|e| classify(path, e)))?;
+    refuse_foreign(path, &found)?;
     let mode: String = tx::retry(path, || {
         conn.pragma_update_and_check(None, "journal_mode", "WAL", |r| r.get(0))
             .map_err(|e| classify(path, e))

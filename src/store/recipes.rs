@@ -194,6 +194,37 @@ impl Store {
         })
     }
 
+    /// The share of water frozen at draw (0..1) set for this log, else the default.
+    pub fn draw_frozen_fraction(&self) -> Result<f64> {
+        let value = self.get_setting(crate::measure::DRAW_FROZEN_FRACTION_SETTING)?;
+        Ok(crate::measure::draw_frozen_fraction_from_setting(
+            value.as_deref(),
+        ))
+    }
+
+    /// What setting readings against predictions takes from this log: the draw
+    /// share and the corrections turned on.
+    pub fn log_setting(&self) -> Result<crate::batch::compare::LogSetting> {
+        Ok(crate::batch::compare::LogSetting {
+            draw_frozen_fraction: self.draw_frozen_fraction()?,
+            corrections: self.corrections_in_force()?,
+            precisions: Vec::new(),
+        })
+    }
+
+    /// Sets the share of water frozen at draw (0..1) for this log.
+    pub fn set_draw_frozen_fraction(&mut self, share: f64) -> Result<()> {
+        if !(share > 0.0 && share < 1.0) {
+            return Err(StoreError::Invalid(format!(
+                "the share of water frozen at draw is between 0 and 1 (like 0.5), not {share}"
+            )));
+        }
+        self.set_setting(
+            crate::measure::DRAW_FROZEN_FRACTION_SETTING,
+            &share.to_string(),
+        )
+    }
+
     /// Saves (or replaces) one of the user's own solutes.
     pub fn save_custom_solute(&mut self, item: &CustomItem) -> Result<()> {
         self.save_custom("custom_solutes", item)

@@ -89,10 +89,14 @@ commands! {
     NewIngredient => "new-ingredient", "Create your own ingredient";
     NewSolute => "new-solute", "Create your own solute";
     EditOwn => "edit-own", "Edit your own solute or ingredient under the cursor";
+    CharacteriseIngredient => "characterise", "Characterise an ingredient of your own from measured freezing points";
     AddToRecipe => "add-to-recipe", "Add the ingredient under the cursor to the recipe";
     OpenDetail => "open-detail", "Open the batch under the cursor";
     FilterRecipe => "filter-recipe", "Show only batches of the recipe in the editor (again: all)";
     FilterDate => "filter-date", "Show only batches made on or after a date";
+    CompareBatches => "compare", "Predicted against measured over the batches shown: bias, RMSE, chart";
+    Calibrate => "calibrate", "Put in force the correction fitted for the kind under the cursor (asks first)";
+    CalibrationOff => "calibration-off", "Take out the correction in force for the kind under the cursor (asks first)";
     StartBatch => "start-batch", "Start a batch from the recipe in the editor";
     AddMeasurement => "add-measurement", "Add a measurement to the open batch";
     AddNote => "add-note", "Add a note to the open batch";
@@ -146,6 +150,10 @@ pub enum Action {
     BatchesPage(super::state::BatchPage),
     /// One batch's detail arrived.
     BatchDetail(Box<super::state::BatchDetailView>),
+    /// The compare view's figures arrived.
+    ComparisonLoaded(Box<super::state::CompareView>),
+    /// A correction was put in force or taken out; the message says which.
+    CorrectionChanged(String),
     /// The user's own solutes and ingredients, read from the database at start.
     OwnLibraryLoaded(super::state::OwnLibrary),
     /// A batch was recorded, or changed (measurement, note, sign-off, amendment).
@@ -205,6 +213,24 @@ pub enum Effect {
     LoadBatches(super::state::BatchQuery),
     /// Fetch one batch's detail by code.
     LoadBatchDetail(String),
+    /// Fetch predicted against measured over the batches asked for.
+    LoadComparison(super::state::CompareRequest),
+    /// Store a correction as a new version and put it in force.
+    TurnOnCorrection {
+        /// The correction as fitted.
+        correction: crate::measure::Correction,
+        /// Who.
+        by: String,
+    },
+    /// Take the correction of a kind and scope out of force.
+    TurnOffCorrection {
+        /// The kind.
+        kind: String,
+        /// The scope.
+        scope: crate::measure::Scope,
+        /// Who.
+        by: String,
+    },
     /// Record a new batch.
     StartBatch(super::state::BatchRequest),
     /// Add a measurement to a batch.

@@ -131,11 +131,13 @@ const RECIPE: &[Context] = &[C::Recipe];
 const INGREDIENTS: &[Context] = &[C::Ingredients];
 const BATCHES: &[Context] = &[C::Batches];
 const DETAIL: &[Context] = &[C::BatchDetail];
+const COMPARE: &[Context] = &[C::Compare];
 const SETTINGS: &[Context] = &[C::Settings];
 const LISTS: &[Context] = &[
     C::Recipe,
     C::Ingredients,
     C::Batches,
+    C::Compare,
     C::Settings,
     C::Reader,
 ];
@@ -146,7 +148,7 @@ const CHOOSING: &[Context] = &[C::Picker];
 const FORM: &[Context] = &[C::Form];
 const READER: &[Context] = &[C::Reader];
 const CONFIRM: &[Context] = &[C::Confirm];
-const BACK: &[Context] = &[C::BatchDetail, C::Confirm];
+const BACK: &[Context] = &[C::BatchDetail, C::Compare, C::Confirm];
 const STARTS_BATCH: &[Context] = &[C::Recipe, C::Batches];
 
 const fn bind(
@@ -258,6 +260,12 @@ pub const KEYMAP: &[Binding] = &[
         Command::AddToRecipe,
         Some("add to recipe"),
     ),
+    bind(
+        INGREDIENTS,
+        Key::ch('m'),
+        Command::CharacteriseIngredient,
+        Some("measure one"),
+    ),
     // The batch log.
     bind(
         BATCHES,
@@ -276,6 +284,19 @@ pub const KEYMAP: &[Binding] = &[
         Key::ch('D'),
         Command::FilterDate,
         Some("since date"),
+    ),
+    bind(
+        BATCHES,
+        Key::ch('c'),
+        Command::CompareBatches,
+        Some("compare"),
+    ),
+    bind(COMPARE, Key::ch('C'), Command::Calibrate, Some("calibrate")),
+    bind(
+        COMPARE,
+        Key::ch('X'),
+        Command::CalibrationOff,
+        Some("calibration off"),
     ),
     bind(
         DETAIL,

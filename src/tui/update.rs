@@ -8,7 +8,9 @@
 use tui_input::{Input, InputRequest};
 
 use super::action::{Action, Command, Effect};
-use super::handlers::{batch_forms, batches, ingredients, own_items, recipe, settings};
+use super::handlers::{
+    batch_forms, batches, characterise, ingredients, own_items, recipe, settings,
+};
 use super::state::{Overlay, PickerPurpose, Question, ReaderKind, Screen, State};
 
 /// Applies one action to the state and returns the effects it asks for.
@@ -48,6 +50,14 @@ pub fn update(state: &mut State, action: Action) -> Vec<Effect> {
         Action::BatchDetail(detail) => {
             state.batches.detail = Some(*detail);
             Vec::new()
+        }
+        Action::ComparisonLoaded(view) => {
+            batches::comparison_arrived(state, *view);
+            Vec::new()
+        }
+        Action::CorrectionChanged(message) => {
+            state.tell(message);
+            batches::reload_comparison(state)
         }
         Action::OwnLibraryLoaded(own) => {
             state.own = own;
@@ -148,6 +158,8 @@ fn overlay_update(state: &mut State, command: Command) -> Vec<Effect> {
             Command::Yes => match question {
                 Question::QuitUnsaved => vec![Effect::Quit],
                 Question::Finalize(code) => batches::finalize(state, code),
+                Question::TurnOnCorrection(kind) => batches::turn_on(state, &kind),
+                Question::TurnOffCorrection(kind) => batches::turn_off(state, &kind),
             },
             Command::No | Command::Cancel => Vec::new(),
             _ => {
@@ -376,6 +388,7 @@ fn check_form(state: &State, form: &mut super::state::Form) {
     match &form.purpose {
         F::Ingredient(_) | F::Solute(_) => own_items::check_form(state, form),
         F::Batch | F::Measurement(_) | F::Amend(_) => batch_forms::check_form(state, form),
+        F::Characterise => characterise::check_form(state, form),
     }
 }
 
@@ -385,6 +398,7 @@ fn submit_form(state: &mut State, mut form: super::state::Form) -> Vec<Effect> {
     let outcome = match &form.purpose {
         F::Ingredient(_) | F::Solute(_) => own_items::submit(state, &form),
         F::Batch | F::Measurement(_) | F::Amend(_) => batch_forms::submit(state, &form),
+        F::Characterise => characterise::submit(state, &form),
     };
     match outcome {
         Ok(effects) => effects,

@@ -7,7 +7,11 @@ mod store_common;
 
 mod batch_cli;
 mod batch_processes;
+mod calibrate_cli;
+mod characterise_cli;
 mod cli_report;
+mod compare_cli;
+mod own_items_cli;
 mod store_import;
 mod store_migrate;
 mod store_open;

@@ -107,7 +107,10 @@ fn the_command_line_says_when_it_upgraded_a_log_and_where_the_copy_is() {
     assert!(first.status.success());
     let said = String::from_utf8_lossy(&first.stderr);
     assert!(
-        said.contains("upgraded from schema version 1 to 2"),
+        said.contains(&format!(
+            "upgraded from schema version 1 to {}",
+            latest_version()
+        )),
         "{said}"
     );
     assert!(said.contains(".bak"), "{said}");
@@ -130,15 +133,15 @@ fn migration_2_drops_only_the_json_check_and_every_connection_sees_it() {
     let before = other_objects(&early);
 
     let store = Store::open(&path).unwrap();
-    assert_eq!(store.migration().to, 2);
+    assert_eq!(store.migration().to, latest_version());
     let sql = table_sql(&early, "batch_predictions");
     assert!(!sql.contains("json_valid"), "{sql}");
     assert!(sql.contains("analysis    TEXT NOT NULL\n"), "{sql}");
+    // Every other table, index and trigger is as it was (later migrations may add more).
     let after = other_objects(&early);
-    assert_eq!(
-        before, after,
-        "every other table, index and trigger is as it was"
-    );
+    for object in &before {
+        assert!(after.contains(object), "changed or gone: {object}");
+    }
 
     // The early connection writes under the new schema: the snapshot text is no
     // longer refused by SQLite, and `db check` is what reports it. (A snapshot for a

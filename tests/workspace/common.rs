@@ -122,3 +122,16 @@ pub fn liqueur_state() -> State {
     state.message = None;
     state
 }
+
+/// Goes to the settings screen and opens the setting `field` for typing.
+pub fn open_setting(state: &mut State, field: gelu::tui::state::SettingField) {
+    cmd(state, Command::ShowSettings);
+    let at = gelu::tui::state::SettingField::ALL
+        .iter()
+        .position(|f| *f == field)
+        .unwrap_or(0);
+    for _ in 0..at {
+        cmd(state, Command::Down);
+    }
+    cmd(state, Command::Toggle);
+}

@@ -290,3 +290,214 @@ fn a_batch_goes_from_draft_to_amended() {
     run(&mut s, &mut services, Command::Confirm);
     assert!(s.batches.rows.is_empty());
 }
+
+#[test]
+fn a_file_leaning_on_an_own_item_opens_and_saves_carrying_it() {
+    use gelu::model::{Category, Ingredient};
+    let dir = tempdir();
+    let db = dir.path().join("log.db");
+    // The Quay Kitchen's own syrup, kept in the log (demo numbers).
+    let syrup = Ingredient {
+        id: "quay-fig-syrup".into(),
+        name: "Quay fig syrup".into(),
+        category: Category::Sugar,
+        water_pct: 35.0,
+        fat_pct: 0.0,
+        protein_pct: 0.0,
+        other_solids_pct: 0.0,
+        solutes_pct: [
+            ("glucose".to_string(), 33.0),
+            ("fructose".to_string(), 32.0),
+        ]
+        .into(),
+        density_g_ml: 1.3,
+        allergens: Vec::new(),
+        source: "demo: the Quay Kitchen's own sheet".into(),
+    };
+    {
+        let mut store = match gelu::store::Store::open(&db) {
+            Ok(s) => s,
+            Err(e) => panic!("{e}"),
+        };
+        let item = gelu::store::CustomItem {
+            id: syrup.id.clone(),
+            name: syrup.name.clone(),
+            definition: gelu::recipe_file::own_item_definition(
+                &syrup.name,
+                &[],
+                std::slice::from_ref(&syrup),
+            ),
+        };
+        if let Err(e) = store.save_custom_ingredient(&item) {
+            panic!("{e}");
+        }
+    }
+    let file = dir.path().join("fig.toml");
+    let text = "# Quay fig sorbet, keep this comment\nname = \"Quay fig sorbet\"\nstyle = \"sorbet\"\n\n[[line]]\ningredient = \"water\"\ng = 600\n\n[[line]]\ningredient = \"quay-fig-syrup\"\ng = 300 # from the cellar\n";
+    if let Err(e) = std::fs::write(&file, text) {
+        panic!("{e}");
+    }
+    let (mut s, mut services) = open(&db, Some(file.clone()));
+    assert_eq!(s.recipe.recipe.name, "Quay fig sorbet", "{:?}", s.message);
+    assert_eq!(s.recipe.recipe.ingredients, vec![syrup.clone()]);
+    assert!(s.recipe.analysis.is_ok());
+    // A change, then save: the file now carries the syrup and keeps its words.
+    run(&mut s, &mut services, Command::EditAmount);
+    cmd(&mut s, Command::ClearField);
+    type_text(&mut s, "620");
+    run(&mut s, &mut services, Command::Confirm);
+    run(&mut s, &mut services, Command::Save);
+    let saved = std::fs::read_to_string(&file).unwrap_or_default();
+    assert!(
+        saved.contains("# Quay fig sorbet, keep this comment"),
+        "{saved}"
+    );
+    assert!(saved.contains("g = 300 # from the cellar"), "{saved}");
+    let alone = gelu::recipe_file::parse_recipe(&file, &saved);
+    assert!(
+        alone.is_ok_and(|r| r.ingredients == vec![syrup.clone()]),
+        "the file reads without the log:\n{saved}"
+    );
+    // Opened again as it was and recorded as a batch: the record reads alone too.
+    if let Err(e) = std::fs::write(&file, text) {
+        panic!("{e}");
+    }
+    let (mut s, mut services) = open(&db, Some(file.clone()));
+    s.settings.operator = "QK".into();
+    run(&mut s, &mut services, Command::StartBatch);
+    run(&mut s, &mut services, Command::Confirm);
+    let Some(detail) = s.batches.detail.clone() else {
+        panic!("the batch was recorded: {:?}", s.message);
+    };
+    let store = match gelu::store::Store::open(&db) {
+        Ok(st) => st,
+        Err(e) => panic!("{e}"),
+    };
+    let recorded = match store.batch(&detail.row.code) {
+        Ok(Some(b)) => b.recipe.text,
+        other => panic!("{other:?}"),
+    };
+    let alone = gelu::recipe_file::parse_recipe(&file, &recorded);
+    assert!(
+        alone.is_ok_and(|r| r.ingredients == vec![syrup]),
+        "{recorded}"
+    );
+}
+
+#[test]
+fn the_measurement_loop_runs_against_the_log() {
+    use gelu::batch::MeasurementKind;
+    use gelu::batch::plan::{Plan, plan_batch};
+    let dir = tempdir();
+    let db = dir.path().join("log.db");
+    // Six vanilla batches whose freezing point read 0.2 K warmer than predicted.
+    {
+        let mut store = match gelu::store::Store::open(&db) {
+            Ok(s) => s,
+            Err(e) => panic!("{e}"),
+        };
+        let Some((name, text)) = gelu::samples::SAMPLE_RECIPES
+            .iter()
+            .find(|(n, _)| n.contains("vanilla"))
+        else {
+            panic!("the vanilla sample");
+        };
+        let recipe = match gelu::recipe_file::parse_recipe(std::path::Path::new(name), text) {
+            Ok(r) => r,
+            Err(e) => panic!("{e}"),
+        };
+        for _ in 0..6 {
+            let new = plan_batch(
+                &Plan {
+                    recipe: &recipe,
+                    recipe_text: text,
+                    size: gelu::model::Amount::Grams(5000.0),
+                    operator: "RW",
+                    lots: &[],
+                    note: None,
+                    made_at: gelu::clock::now(),
+                },
+                gelu::catalog::Catalog::builtin(),
+                &gelu::analysis::Options::default(),
+            );
+            let b = match new.map(|n| store.new_batch(&n)) {
+                Ok(Ok(b)) => b,
+                other => panic!("{other:?}"),
+            };
+            let p = b.prediction["freezing_point_c"]
+                .as_f64()
+                .unwrap_or(f64::NAN);
+            if let Err(e) =
+                store.add_measurements(&b.code, &[(MeasurementKind::FreezingPointC, p + 0.2)], "RW")
+            {
+                panic!("{e}");
+            }
+        }
+    }
+    let (mut s, mut services) = open(&db, None);
+    s.settings.operator = "RW".into();
+    // An ingredient characterised in the form is saved into the log.
+    run(&mut s, &mut services, Command::ShowIngredients);
+    run(&mut s, &mut services, Command::CharacteriseIngredient);
+    for v in [
+        "slipway-dextrose",
+        "Slipway dextrose",
+        "10:90:-1.17 20:80:-2.70",
+        "100",
+        "1",
+    ] {
+        cmd(&mut s, Command::ClearField);
+        type_text(&mut s, v);
+        cmd(&mut s, Command::NextField);
+    }
+    run(&mut s, &mut services, Command::Confirm);
+    assert!(s.overlay.is_none(), "{:?}", s.message);
+    // The compare view of the vanilla batches, then its correction put in force.
+    run(&mut s, &mut services, Command::ShowBatches);
+    run(&mut s, &mut services, Command::CompareBatches);
+    let Some(view) = s.batches.compare.clone() else {
+        panic!("the compare view opens: {:?}", s.message);
+    };
+    let at = view
+        .kinds
+        .iter()
+        .position(|k| k.summary.kind == "freezing-point-c")
+        .unwrap_or(usize::MAX);
+    assert_eq!(view.kinds[at].summary.n, 6);
+    assert!((view.kinds[at].summary.bias - 0.2).abs() < 1e-9);
+    for _ in 0..at {
+        cmd(&mut s, Command::Down);
+    }
+    run(&mut s, &mut services, Command::Calibrate);
+    run(&mut s, &mut services, Command::Yes);
+    let Some(view) = s.batches.compare.clone() else {
+        panic!("the compare view stays open");
+    };
+    let k = &view.kinds[at];
+    assert!(k.in_force.is_some(), "{:?}", s.message);
+    assert!(
+        k.corrected
+            .is_some_and(|c| c.corrected == 6 && c.bias.abs() < 0.2)
+    );
+    run(&mut s, &mut services, Command::Cancel);
+    // A batch's detail shows the calibrated figure beside the plain one.
+    run(&mut s, &mut services, Command::OpenDetail);
+    let Some(detail) = s.batches.detail.clone() else {
+        panic!("detail");
+    };
+    let fp = detail
+        .comparisons
+        .iter()
+        .find(|c| c.kind == MeasurementKind::FreezingPointC);
+    assert!(
+        fp.is_some_and(|c| c.predicted.is_some()
+            && c.calibrated
+                .as_ref()
+                .is_some_and(|k| k.basis.contains("from 6 batches"))),
+        "{fp:?}"
+    );
+    // After a restart the own ingredient is there.
+    drop(services);
+    let (s, _) = open(&db, None);
+    assert!(s.own.ingredient("slipway-dextrose").is_some());
+}

@@ -7,6 +7,7 @@ mod common;
 mod cautions;
 mod effects;
 mod keymap;
+mod measure_loop;
 mod pty;
 mod snapshots;
 mod update;

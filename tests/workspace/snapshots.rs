@@ -4,7 +4,7 @@
 //! colour.
 
 use crate::common::{cmd, draw, liqueur_state, loaded_state, type_text};
-use gelu::batch::compare::Comparison;
+use gelu::batch::compare::{Calibrated, Comparison, PredictedFrom};
 use gelu::tui::state::{BatchDetailView, BatchPage, BatchRow, MeasurementRow, State};
 use gelu::tui::{Action, Command, update};
 use ratatui::Terminal;
@@ -56,11 +56,43 @@ fn with_detail() -> State {
                 ("heavy-cream".into(), 960.0, "QM-0413".into()),
                 ("sucrose".into(), 840.0, String::new()),
             ],
-            comparisons: vec![Comparison {
-                kind,
-                predicted: Some(-2.79),
-                measured: Some(-2.9),
-            }],
+            comparisons: vec![
+                Comparison {
+                    kind: gelu::batch::MeasurementKind::Brix,
+                    predicted: Some(31.2),
+                    predicted_from: PredictedFrom::RecipeText,
+                    no_prediction: None,
+                    calibrated: None,
+                    measured: None,
+                    measured_at: None,
+                    likely_causes: Vec::new(),
+                },
+                Comparison {
+                    kind: gelu::batch::MeasurementKind::DrawTempC,
+                    predicted: Some(-5.6),
+                    predicted_from: PredictedFrom::RecipeText,
+                    no_prediction: None,
+                    calibrated: None,
+                    measured: Some(-4.1),
+                    measured_at: None,
+                    likely_causes: vec![
+                        "fewer dissolved solids than the recipe says: a sugar line missing or weighed low".into(),
+                    ],
+                },
+                Comparison {
+                    kind,
+                    predicted: Some(-2.79),
+                    predicted_from: PredictedFrom::Recorded,
+                    no_prediction: None,
+                    calibrated: Some(Calibrated {
+                        value: -2.67,
+                        basis: "+0.12 K from 14 batches".into(),
+                    }),
+                    measured: Some(-2.9),
+                    measured_at: None,
+                    likely_causes: Vec::new(),
+                },
+            ],
             measurements: vec![MeasurementRow {
                 at: "2026-12-01 10:12".into(),
                 kind,
@@ -115,6 +147,31 @@ fn scenes() -> Vec<(&'static str, State)> {
     imperial.reanalyse();
     let mut warnings = loaded_state();
     cmd(&mut warnings, Command::ShowWarnings);
+    let mut characterise = loaded_state();
+    cmd(&mut characterise, Command::ShowIngredients);
+    cmd(&mut characterise, Command::CharacteriseIngredient);
+    for v in [
+        "breakwater-dextrose",
+        "Breakwater dextrose",
+        "10:90:-1.17 20:80:-2.70",
+        "100",
+        "1",
+    ] {
+        cmd(&mut characterise, Command::ClearField);
+        type_text(&mut characterise, v);
+        cmd(&mut characterise, Command::NextField);
+    }
+    let mut compare = with_batches();
+    update(
+        &mut compare,
+        Action::ComparisonLoaded(Box::new(crate::measure_loop::compare_view())),
+    );
+    let mut calibrate = with_batches();
+    update(
+        &mut calibrate,
+        Action::ComparisonLoaded(Box::new(crate::measure_loop::compare_view())),
+    );
+    cmd(&mut calibrate, Command::Calibrate);
     vec![
         ("recipe", recipe),
         ("recipe_empty", empty),
@@ -131,6 +188,9 @@ fn scenes() -> Vec<(&'static str, State)> {
         ("warnings", warnings),
         ("recipe_fahrenheit_ounces", imperial),
         ("liqueur", liqueur_state()),
+        ("characterise_form", characterise),
+        ("compare", compare),
+        ("calibrate_question", calibrate),
     ]
 }
 

@@ -1,7 +1,7 @@
 //! Unit tests of `update`: state + action -> state and effects, for every
 //! screen's actions. No terminal and no database: effects are only inspected.
 
-use crate::common::{cmd, loaded_state, type_text};
+use crate::common::{cmd, loaded_state, open_setting, type_text};
 use gelu::model::Amount;
 use gelu::model::TempUnit;
 use gelu::tui::state::{
@@ -766,14 +766,7 @@ fn settings_toggle_units_and_check_temperatures() {
         matches!(&effects[..], [Effect::SaveSettings(x)] if x.temp_unit == TempUnit::Fahrenheit)
     );
     // The cabinet temperature is typed in °F now: 5 °F is -15 °C.
-    let at = SettingField::ALL
-        .iter()
-        .position(|f| *f == SettingField::CabinetTemp)
-        .unwrap_or(0);
-    for _ in 0..at {
-        cmd(&mut s, Command::Down);
-    }
-    cmd(&mut s, Command::Toggle);
+    open_setting(&mut s, SettingField::CabinetTemp);
     cmd(&mut s, Command::ClearField);
     type_text(&mut s, "50");
     assert!(cmd(&mut s, Command::Confirm).is_empty());

@@ -3,6 +3,9 @@
 
 use std::path::PathBuf;
 
+use crate::batch::MeasurementKind;
+use crate::model::Style;
+
 /// Arguments of `gelu batch`.
 #[derive(Debug, clap::Args)]
 pub struct BatchArgs {
@@ -26,6 +29,30 @@ pub struct FilterArgs {
     /// Words to find in notes, supplier lots and amendment reasons (`gloss*` for a prefix).
     #[arg(long, value_name = "TEXT")]
     pub search: Option<String>,
+}
+
+/// Which batches `compare` and `calibrate` learn from.
+#[derive(Debug, clap::Args)]
+pub struct Selection {
+    /// Only batches of this recipe (its exact name).
+    #[arg(long, value_name = "NAME")]
+    pub recipe: Option<String>,
+    /// Only batches of recipes of this style (ice-cream, gelato, sorbet, ...).
+    #[arg(long, value_name = "STYLE", value_parser = super::compare::style_name)]
+    pub style: Option<Style>,
+    /// Made on or after DATE (YYYY-MM-DD, UTC, or an RFC 3339 time).
+    #[arg(long, value_name = "DATE")]
+    pub since: Option<String>,
+}
+
+/// Instrument precisions, shared by `compare` and `calibrate`.
+#[derive(Debug, clap::Args)]
+pub struct Precisions {
+    /// The precision of your instrument for a kind, repeatable: a reading is
+    /// weighted and judged by it (--precision freezing-point-c=0.3 for a probe
+    /// thermometer; the default assumes a cryoscope's 0.005 K).
+    #[arg(long = "precision", value_name = "KIND=PRECISION", value_parser = super::compare::precision)]
+    pub list: Vec<(MeasurementKind, f64)>,
 }
 
 /// The `gelu batch` subcommands.
@@ -118,6 +145,58 @@ pub enum BatchCommand {
         /// The supplier lot of a line, repeatable: --lot whole-milk=M-2612-04.
         #[arg(long = "lot", value_name = "INGREDIENT=LOT")]
         lots: Vec<String>,
+    },
+    /// Predicted against measured over the log, per kind: count, bias, RMSE,
+    /// the worst batches, those far off with likely causes, and a chart.
+    Compare {
+        #[command(flatten)]
+        batches: Selection,
+        /// Only this kind (freezing-point-c, abv-pct, brix, draw-temp-c, ...).
+        #[arg(long, value_name = "KIND", value_parser = super::compare::predicted_kind)]
+        kind: Option<MeasurementKind>,
+        #[command(flatten)]
+        precisions: Precisions,
+        /// One JSON object per kind per line.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Fit a correction of one kind for a recipe or a style from the logged
+    /// batches and show how it would change the predictions; --turn-on puts it
+    /// in force as a new version, --turn-off takes it out.
+    #[command(group(clap::ArgGroup::new("scope").required(true).args(["recipe", "style"])))]
+    Calibrate {
+        /// The kind to correct (freezing-point-c, brix, abv-pct, draw-temp-c, ...).
+        #[arg(long, value_name = "KIND", value_parser = super::compare::predicted_kind)]
+        kind: MeasurementKind,
+        #[command(flatten)]
+        batches: Selection,
+        #[command(flatten)]
+        precisions: Precisions,
+        /// Store the correction as a new version and put it in force.
+        #[arg(long, conflicts_with = "turn_off")]
+        turn_on: bool,
+        /// Take the correction in force out (its versions stay in the log).
+        #[arg(long)]
+        turn_off: bool,
+        /// Who turns it on or off (default: the login name).
+        #[arg(long, value_name = "NAME")]
+        by: Option<String>,
+        /// As one JSON object.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Every stored correction version, and who put which in force or took it out, when.
+    Calibrations {
+        /// One JSON object per version, then per switch, per line.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Show, or set, the share of water frozen at draw the log predicts draw
+    /// temperatures at (default 0.5: about half the water is frozen at draw,
+    /// McGee, On Food and Cooking).
+    DrawShare {
+        /// The new share (0..1, or a percentage like 45%).
+        share: Option<String>,
     },
     /// Write batches as JSON Lines (lossless) or CSV to standard output.
     Export {

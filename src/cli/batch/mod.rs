@@ -3,6 +3,8 @@
 //! as text, or as JSON (one object per batch per line) with `--json`.
 
 mod args;
+mod calibrate;
+mod compare;
 
 use std::io::Write;
 use std::path::Path;
@@ -10,19 +12,22 @@ use std::process::ExitCode;
 
 use anyhow::{Context, bail};
 
-pub use args::{BatchArgs, BatchCommand, ExportFormat, FilterArgs};
+pub use args::{BatchArgs, BatchCommand, ExportFormat, FilterArgs, Selection};
 
 use super::db::open_store;
 use crate::analysis::Options;
+use crate::batch::compare::{comparisons, comparisons_json};
 use crate::batch::export::Format;
 use crate::batch::jsonl::batch_json;
-use crate::batch::plan::{Plan, parse_size, plan_batch};
+use crate::batch::plan::{Plan, parse_size, plan_batch_drawn};
+use crate::batch::reading::all_as_recorded;
 use crate::batch::{Batch, BatchFilter, Edit, LineRef, MeasurementKind};
 use crate::catalog::Catalog;
 use crate::clock;
 use crate::model::time::{DayEnd, parse_date_bound};
-use crate::model::units::parse_number;
-use crate::recipe_file::read_recipe;
+use crate::model::units::{parse_number, parse_share};
+use crate::model::{OwnItems, Recipe};
+use crate::recipe_file::{append_own_items, parse_recipe, read_recipe_using};
 use crate::report::batch_text::{batch_text, summary_line};
 use crate::store::Store;
 
@@ -92,12 +97,41 @@ fn show(store: &Store, code: &str, json: bool) -> anyhow::Result<ExitCode> {
     let b = store
         .batch(code)?
         .ok_or_else(|| crate::store::StoreError::NoSuchBatch { code: code.into() })?;
+    let log = store.log_setting()?;
     if json {
-        print_json(&b);
+        let mut value = batch_json(&b);
+        if let Some(object) = value.as_object_mut() {
+            let compared = comparisons(&b, &log.setting());
+            object.insert("compared".into(), comparisons_json(&compared));
+        }
+        println!("{value}");
     } else {
-        print!("{}", batch_text(&b));
+        print!("{}", batch_text(&b, &log.setting()));
     }
     Ok(ExitCode::SUCCESS)
+}
+
+/// The recipe file as a batch records it: when it uses own items from the log,
+/// they are added to its text (which is otherwise kept as it is), so the
+/// recorded version reads without the log.
+fn recorded_recipe(path: &Path, own: &OwnItems) -> anyhow::Result<(Recipe, String)> {
+    let (parsed, text, borrowed) = read_recipe_using(path, own)?;
+    if borrowed.is_empty() {
+        return Ok((parsed, text));
+    }
+    let text = append_own_items(path, &text, &borrowed)?;
+    let parsed = parse_recipe(path, &text)?;
+    let ids: Vec<&str> = borrowed
+        .ingredients
+        .iter()
+        .map(|i| i.id.as_str())
+        .chain(borrowed.solutes.iter().map(|s| s.id.as_str()))
+        .collect();
+    eprintln!(
+        "gelu: the recorded recipe carries your own {} from the batch log, so the record never depends on the log",
+        ids.join(", ")
+    );
+    Ok((parsed, text))
 }
 
 fn new_batch(
@@ -109,11 +143,12 @@ fn new_batch(
     note: Option<&str>,
     json: bool,
 ) -> anyhow::Result<ExitCode> {
-    let (parsed, text) = read_recipe(recipe)?;
     let size = parse_size(size, None)?;
     let operator = who(by)?;
     let lots = lots(lot_args)?;
-    let planned = plan_batch(
+    let mut store = open_store(db)?;
+    let (parsed, text) = recorded_recipe(recipe, &super::own::own_items_of(&store)?)?;
+    let planned = plan_batch_drawn(
         &Plan {
             recipe: &parsed,
             recipe_text: &text,
@@ -125,8 +160,8 @@ fn new_batch(
         },
         Catalog::builtin(),
         &Options::default(),
+        store.draw_frozen_fraction()?,
     )?;
-    let mut store = open_store(db)?;
     let b = store.new_batch(&planned)?;
     if json {
         print_json(&b);
@@ -192,7 +227,7 @@ pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
                 .collect::<anyhow::Result<Vec<_>>>()?;
             let who = who(by)?;
             let mut store = open_store(db)?;
-            let saved = store.add_measurements(code, &list, &who)?;
+            let saved = store.add_measurements(code, &all_as_recorded(&list), &who)?;
             println!("{code}: {} measurement(s) recorded", saved.len());
             Ok(ExitCode::SUCCESS)
         }
@@ -233,6 +268,81 @@ pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
             let who = who(by)?;
             let a = open_store(db)?.amend(code, &who, reason, &edits)?;
             println!("{code}: amended ({} change(s))", a.changes.len());
+            Ok(ExitCode::SUCCESS)
+        }
+        BatchCommand::Compare {
+            batches:
+                Selection {
+                    recipe,
+                    style,
+                    since,
+                },
+            kind,
+            precisions,
+            json,
+        } => {
+            let store = open_store(db)?;
+            let mut log = store.log_setting()?;
+            log.precisions.clone_from(&precisions.list);
+            let f = filter(
+                &FilterArgs {
+                    recipe: recipe.clone(),
+                    since: since.clone(),
+                    until: None,
+                    search: None,
+                },
+                0,
+            )?;
+            let pairs = store.measured_pairs(&f, *style, *kind, &log.setting())?;
+            compare::print(&pairs, *json)
+        }
+        BatchCommand::Calibrate {
+            kind,
+            batches:
+                Selection {
+                    recipe,
+                    style,
+                    since,
+                },
+            precisions,
+            turn_on,
+            turn_off,
+            by,
+            json,
+        } => {
+            let request = calibrate::Request {
+                kind: *kind,
+                recipe: recipe.clone(),
+                style: *style,
+                since: since
+                    .as_deref()
+                    .map(|d| date(d, DayEnd::Start))
+                    .transpose()?,
+            };
+            let turn = match (turn_on, turn_off) {
+                (true, _) => Some(true),
+                (_, true) => Some(false),
+                _ => None,
+            };
+            let by = if turn.is_some() {
+                who(by)?
+            } else {
+                String::new()
+            };
+            let mut store = open_store(db)?;
+            calibrate::run(&mut store, &request, &precisions.list, turn, &by, *json)
+        }
+        BatchCommand::Calibrations { json } => calibrate::history(&open_store(db)?, *json),
+        BatchCommand::DrawShare { share } => {
+            let mut store = open_store(db)?;
+            if let Some(text) = share {
+                let share = parse_share(text).map_err(anyhow::Error::msg)?;
+                store.set_draw_frozen_fraction(share)?;
+            }
+            println!(
+                "draw temperatures are predicted at {} % of the water frozen",
+                crate::model::units::trim_number(100.0 * store.draw_frozen_fraction()?)
+            );
             Ok(ExitCode::SUCCESS)
         }
         BatchCommand::Export {

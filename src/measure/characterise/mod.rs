@@ -29,7 +29,8 @@ mod record;
 use serde::{Deserialize, Serialize};
 
 use crate::catalog::{Catalog, validate_id};
-use crate::model::{Category, Ingredient, Solute, SoluteKind};
+use crate::model::units::{parse_number, parse_temp};
+use crate::model::{Category, Ingredient, Solute, SoluteKind, TempUnit};
 use crate::thermo::binary::{Binary, WaterModel};
 use crate::thermo::ice::ln_ice_activity;
 
@@ -65,6 +66,37 @@ pub struct DilutionPoint {
     pub water_g: f64,
     /// Measured freezing point (°C).
     pub freezing_point_c: f64,
+}
+
+impl DilutionPoint {
+    /// Reads a point as typed, `SAMPLE_G:WATER_G:TEMP`: masses in grams (a comma
+    /// may be the decimal mark), the temperature as `model::units` reads one (a
+    /// bare number in `unit`, or with a C or F suffix). Whether the point can be
+    /// right is [`characterise()`]'s to judge.
+    pub fn parse(text: &str, unit: TempUnit) -> Result<DilutionPoint, String> {
+        let parts: Vec<&str> = text.split(':').collect();
+        let [sample, water, temp] = parts.as_slice() else {
+            return Err(format!(
+                "`{}` should be SAMPLE_G:WATER_G:TEMP, like 10:90:-1.17 (10 g of the sample in 90 g of water froze at -1.17 °C)",
+                text.trim()
+            ));
+        };
+        let grams = |what: &str, t: &str| {
+            parse_number(t).map_err(|_| {
+                format!(
+                    "`{}`: the {what} `{}` is not a number of grams",
+                    text.trim(),
+                    t.trim()
+                )
+            })
+        };
+        Ok(DilutionPoint {
+            sample_g: grams("sample", sample)?,
+            water_g: grams("water", water)?,
+            freezing_point_c: parse_temp(temp, unit)
+                .map_err(|e| format!("`{}`: {e}", text.trim()))?,
+        })
+    }
 }
 
 /// What is known of the sample's dry matter.

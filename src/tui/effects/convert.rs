@@ -2,15 +2,19 @@
 //! key-value pairs, the user's own items as TOML definitions, and batch
 //! records as the rows and details the batch log draws.
 
-use std::path::Path;
-
-use crate::batch::compare::comparisons;
+use crate::batch::BatchFilter;
+use crate::batch::compare::{Setting, comparisons, fit_for, scope_batches, with_corrections};
 use crate::batch::{Batch, BatchSummary};
-use crate::model::{Amount, Ingredient, Line, Recipe, Solute};
-use crate::recipe_file::{parse_recipe, recipe_to_toml};
+use crate::measure::{DRAW_FROZEN_FRACTION_SETTING, summarise};
+use crate::model::time::{DayEnd, parse_date_bound};
+use crate::model::{Ingredient, Solute};
+use crate::recipe_file::{own_item_definition, own_items_in};
 use crate::store::{CustomItem, Store};
 
-use super::super::state::{BatchDetailView, BatchRow, MeasurementRow, OwnLibrary, Settings};
+use super::super::state::{
+    BatchDetailView, BatchRow, CompareRequest, CompareView, KindView, MeasurementRow, OwnLibrary,
+    Settings,
+};
 use crate::model::{MassUnit, TempUnit};
 
 const KEY_TEMP: &str = "workspace.temp_unit";
@@ -40,6 +44,10 @@ pub fn settings_pairs(s: &Settings) -> Vec<(&'static str, String)> {
         (KEY_SERVING, s.serving_frozen_fraction.to_string()),
         (KEY_CABINET, s.cabinet_temp_c.to_string()),
         (KEY_FREEZER, s.freezer_temp_c.to_string()),
+        (
+            DRAW_FROZEN_FRACTION_SETTING,
+            s.draw_frozen_fraction.to_string(),
+        ),
         (KEY_OPERATOR, s.operator.clone()),
     ]
 }
@@ -79,55 +87,89 @@ pub fn load_settings(store: &Store) -> Settings {
     if let Some(v) = get(KEY_OPERATOR) {
         s.operator = v;
     }
+    if let Ok(share) = store.draw_frozen_fraction() {
+        s.draw_frozen_fraction = share;
+    }
     s
 }
 
+/// Predicted against measured over the batches `request` asks for, with the
+/// correction each kind would get for its scope and the one in force.
+pub fn compare_view(store: &Store, request: CompareRequest) -> anyhow::Result<CompareView> {
+    let log = store.log_setting()?;
+    let since = request
+        .since
+        .as_deref()
+        .map(|day| parse_date_bound(day, DayEnd::Start))
+        .transpose()
+        .map_err(anyhow::Error::msg)?;
+    let shown = BatchFilter {
+        recipe: request.recipe.clone(),
+        since,
+        ..BatchFilter::default()
+    };
+    let pairs = store.measured_pairs(&shown, None, None, &log.setting())?;
+    let plain: Vec<_> = pairs.iter().map(|(c, _)| c.clone()).collect();
+    let summaries = summarise(&plain)?;
+    let scope_pairs = match &request.scope {
+        Some(scope) => {
+            let (recipe, style) = scope_batches(scope);
+            let filter = BatchFilter {
+                recipe,
+                since,
+                ..BatchFilter::default()
+            };
+            store.measured_pairs(&filter, style, None, &log.setting())?
+        }
+        None => Vec::new(),
+    };
+    let kinds = summaries
+        .into_iter()
+        .map(|summary| {
+            let preview = match &request.scope {
+                Some(scope) => {
+                    fit_for(&summary.kind, scope, &scope_pairs).map_err(|e| e.to_string())
+                }
+                None => Err("no recipe or style to calibrate for".to_string()),
+            };
+            let in_force = log
+                .corrections
+                .iter()
+                .find(|c| c.kind == summary.kind && Some(&c.scope) == request.scope.as_ref())
+                .cloned();
+            KindView {
+                corrected: with_corrections(&pairs, &summary.kind),
+                preview,
+                in_force,
+                summary,
+            }
+        })
+        .collect();
+    Ok(CompareView {
+        request,
+        kinds,
+        cursor: 0,
+    })
+}
+
 /// An own solute or ingredient as stored: a small recipe file holding it (and
-/// the own solutes it uses), with one line of water so it reads as a recipe.
+/// the own solutes it uses).
 pub fn own_item(
     id: &str,
     name: &str,
     solutes: Vec<Solute>,
     ingredients: Vec<Ingredient>,
 ) -> CustomItem {
-    let holder = Recipe {
-        name: name.to_string(),
-        solutes,
-        ingredients,
-        lines: vec![Line {
-            ingredient: "water".into(),
-            amount: Amount::Grams(1.0),
-        }],
-        ..Recipe::default()
-    };
     CustomItem {
         id: id.to_string(),
         name: name.to_string(),
-        definition: recipe_to_toml(&holder),
+        definition: own_item_definition(name, &solutes, &ingredients),
     }
 }
 
 /// The user's own solutes and ingredients stored in the database.
 pub fn load_own_library(store: &Store) -> anyhow::Result<OwnLibrary> {
-    let mut own = OwnLibrary::default();
-    for item in store.custom_solutes()? {
-        let holder = parse_recipe(Path::new(&item.id), &item.definition)
-            .map_err(|e| anyhow::anyhow!("{e}"))?;
-        own.solutes
-            .extend(holder.solutes.into_iter().filter(|s| s.id == item.id));
-    }
-    for item in store.custom_ingredients()? {
-        let holder = parse_recipe(Path::new(&item.id), &item.definition)
-            .map_err(|e| anyhow::anyhow!("{e}"))?;
-        for s in holder.solutes {
-            if !own.solutes.iter().any(|o| o.id == s.id) {
-                own.solutes.push(s);
-            }
-        }
-        own.ingredients
-            .extend(holder.ingredients.into_iter().filter(|i| i.id == item.id));
-    }
-    Ok(own)
+    own_items_in(store)
 }
 
 fn minute(t: &chrono::DateTime<chrono::Utc>) -> String {
@@ -149,9 +191,10 @@ pub fn row(b: &BatchSummary) -> BatchRow {
     }
 }
 
-/// One batch in full, with predicted against measured figures.
-pub fn detail(b: &Batch) -> BatchDetailView {
-    let comparisons = comparisons(b);
+/// One batch in full, with predicted against measured figures (`setting`:
+/// the draw share and corrections in force).
+pub fn detail(b: &Batch, setting: &Setting<'_>) -> BatchDetailView {
+    let comparisons = comparisons(b, setting);
     let mut notes: Vec<(String, String, String)> = b
         .notes
         .iter()

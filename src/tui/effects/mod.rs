@@ -10,14 +10,16 @@ use std::path::{Path, PathBuf};
 use anyhow::Context as _;
 
 use crate::analysis::Options;
-use crate::batch::plan::{Plan, plan_batch};
+use crate::batch::plan::{Plan, plan_batch_drawn};
+use crate::batch::reading::as_recorded;
 use crate::batch::{BatchFilter, LineRef};
 use crate::catalog::Catalog;
 use crate::clock;
+use crate::model::OwnItems;
 use crate::model::Recipe;
 use crate::model::time::{DayEnd, parse_date_bound};
-use crate::recipe_file::{parse_recipe, read_recipe, recipe_to_toml};
-use crate::store::{CustomItem, Store};
+use crate::recipe_file::{parse_recipe, parse_recipe_using, read_recipe_using, recipe_to_toml};
+use crate::store::{CustomItem, Store, scope_words};
 
 use super::action::{Action, Effect};
 use super::state::{BatchPage, BatchQuery, BatchRequest, RecipeEntry, RecipeSource};
@@ -66,8 +68,7 @@ impl Services {
             ))),
         }
         if let Some(path) = &launch.file {
-            let (recipe, text) = read_recipe(path).map_err(|e| anyhow::anyhow!("{e}"))?;
-            actions.push(loaded_file(path, recipe, text));
+            actions.push(self.open_file(path)?);
         } else if let Ok(recipes) = self.store.recipes() {
             // Reopen the recipe last worked on; on a new log, the house vanilla if seeded.
             let remembered = self.store.get_setting(LAST_RECIPE_KEY).ok().flatten();
@@ -99,10 +100,7 @@ impl Services {
         let s = &mut self.store;
         Ok(match effect {
             Effect::Quit => Vec::new(),
-            Effect::OpenFile(path) => {
-                let (recipe, text) = read_recipe(&path).map_err(|e| anyhow::anyhow!("{e}"))?;
-                vec![loaded_file(&path, recipe, text)]
-            }
+            Effect::OpenFile(path) => vec![self.open_file(&path)?],
             Effect::SaveFile {
                 path,
                 original,
@@ -173,17 +171,42 @@ impl Services {
             }
             Effect::LoadBatches(query) => vec![Action::BatchesPage(load_page(s, query)?)],
             Effect::LoadBatchDetail(code) => match s.batch(&code)? {
-                Some(batch) => vec![Action::BatchDetail(Box::new(convert::detail(&batch)))],
+                Some(batch) => {
+                    let log = s.log_setting()?;
+                    vec![Action::BatchDetail(Box::new(convert::detail(
+                        &batch,
+                        &log.setting(),
+                    )))]
+                }
                 None => anyhow::bail!("there is no batch {code}"),
             },
             Effect::StartBatch(request) => vec![start_batch(s, request)?],
+            Effect::LoadComparison(request) => vec![Action::ComparisonLoaded(Box::new(
+                convert::compare_view(s, request)?,
+            ))],
+            Effect::TurnOnCorrection { correction, by } => {
+                let version = s.turn_on_correction(&correction, &by)?;
+                vec![Action::CorrectionChanged(format!(
+                    "The correction of {} for {} is in force as version {version}: {}. Calibrated figures are marked as such.",
+                    correction.kind,
+                    scope_words(&correction.scope),
+                    correction.basis
+                ))]
+            }
+            Effect::TurnOffCorrection { kind, scope, by } => {
+                s.turn_off_correction(&kind, &scope, &by)?;
+                vec![Action::CorrectionChanged(format!(
+                    "The correction of {kind} for {} is taken out; its versions stay in the log.",
+                    scope_words(&scope)
+                ))]
+            }
             Effect::AddMeasurement {
                 code,
                 kind,
                 value,
                 by,
             } => {
-                s.add_measurement(&code, kind, value, &by)?;
+                s.add_measurements(&code, &as_recorded(kind, value), &by)?;
                 changed(code, "Measurement recorded.")
             }
             Effect::AddNote { code, text, by } => {
@@ -215,6 +238,20 @@ impl Services {
         let _ = self.store.set_setting(LAST_RECIPE_KEY, name);
     }
 
+    /// The user's own items in the log (none when they cannot be read; startup
+    /// says so once).
+    fn own(&self) -> OwnItems {
+        convert::load_own_library(&self.store).unwrap_or_default()
+    }
+
+    /// Reads a recipe file, which may lean on the user's own items in the log
+    /// (copied into the recipe, so saving writes them into the file).
+    fn open_file(&self, path: &Path) -> anyhow::Result<Action> {
+        let (recipe, text, _) =
+            read_recipe_using(path, &self.own()).map_err(|e| anyhow::anyhow!("{e}"))?;
+        Ok(loaded_file(path, recipe, text))
+    }
+
     fn load(&self, name: &str) -> Action {
         let found = self
             .store
@@ -223,8 +260,8 @@ impl Services {
         match found {
             Ok(Some(summary)) => {
                 let label = PathBuf::from(format!("{name} (database)"));
-                match parse_recipe(&label, &summary.latest_text) {
-                    Ok(recipe) => Action::RecipeLoaded {
+                match parse_recipe_using(&label, &summary.latest_text, &self.own()) {
+                    Ok((recipe, _)) => Action::RecipeLoaded {
                         recipe,
                         source: RecipeSource::Database {
                             name: summary.name,
@@ -260,15 +297,7 @@ fn loaded_file(path: &Path, recipe: Recipe, text: String) -> Action {
 
 fn save_file(path: &Path, original: Option<&str>, recipe: Recipe) -> anyhow::Result<Action> {
     let out = crate::recipe_file::rewrite(path, original, &recipe);
-    let tmp = path.with_extension("toml.saving");
-    std::fs::write(&tmp, &out.text)
-        .with_context(|| format!("could not write {}; the file is unchanged", tmp.display()))?;
-    std::fs::rename(&tmp, path).with_context(|| {
-        format!(
-            "could not replace {}; the file is unchanged",
-            path.display()
-        )
-    })?;
+    crate::recipe_file::save_text(path, crate::recipe_file::Expect::Anything, &out.text)?;
     let how = if out.kept_layout {
         "comments and layout kept"
     } else {
@@ -327,9 +356,12 @@ fn load_page(store: &Store, query: BatchQuery) -> anyhow::Result<BatchPage> {
 }
 
 fn start_batch(store: &mut Store, request: BatchRequest) -> anyhow::Result<Action> {
+    // The recorded text must read on its own: a file that leans on the user's
+    // own items in the log is recorded as the recipe with them written in.
     let text = request
         .recipe_text
         .clone()
+        .filter(|t| parse_recipe(Path::new(&request.recipe.name), t).is_ok())
         .unwrap_or_else(|| recipe_to_toml(&request.recipe));
     let lots: Vec<(LineRef, String)> = request
         .lots
@@ -339,7 +371,7 @@ fn start_batch(store: &mut Store, request: BatchRequest) -> anyhow::Result<Actio
         .map(|(k, lot)| (LineRef::Number(k + 1), lot.trim().to_string()))
         .collect();
     let note = (!request.note.trim().is_empty()).then_some(request.note.as_str());
-    let new = plan_batch(
+    let new = plan_batch_drawn(
         &Plan {
             recipe: &request.recipe,
             recipe_text: &text,
@@ -351,6 +383,7 @@ fn start_batch(store: &mut Store, request: BatchRequest) -> anyhow::Result<Actio
         },
         Catalog::builtin(),
         &Options::default(),
+        store.draw_frozen_fraction()?,
     )?;
     let batch = store.new_batch(&new)?;
     Ok(Action::BatchChanged {

@@ -114,6 +114,13 @@ fn measurement(state: &State, form: &Form) -> Result<(MeasurementKind, f64), Str
     let text = value(form, 1);
     let v = if is_temperature(kind) {
         parse_temp(text, state.settings.temp_unit)?
+    } else if kind == MeasurementKind::FreezingPointH {
+        // A cryoscope reading: below zero, kept as read and recorded in °C too.
+        let x = parse_number(text)?;
+        if !(x < 0.0) {
+            return Err("a freezing point in °H is below zero, like -0.540".into());
+        }
+        x
     } else {
         let x = parse_number(text)?;
         if x < 0.0 {

@@ -4,16 +4,29 @@
 //! batch, a measurement or an amendment are in `batch_forms`.
 
 use super::super::action::{Command, Effect};
-use super::super::state::{BatchPage, Overlay, PromptPurpose, Question, State};
+use super::super::state::{
+    BatchPage, CompareRequest, CompareView, KindView, Overlay, PromptPurpose, Question, State,
+};
 use super::batch_forms::{open_amend_form, open_batch_form, open_measurement_form, signer};
 use super::common::{move_cursor, prompt};
+use crate::measure::Scope;
 use crate::model::time::{DayEnd, parse_date_bound};
 
 /// Rows from the end of what is loaded at which the next page is fetched.
 pub const PREFETCH_ROWS: usize = 60;
 
-/// Handles a command on the batch log (list or detail).
+/// Handles a command on the batch log (list, detail or compare view).
 pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
+    if let Some(view) = &mut state.batches.compare {
+        match command {
+            c if c.moves_cursor() => view.cursor = move_cursor(view.cursor, view.kinds.len(), c),
+            Command::Cancel => state.batches.compare = None,
+            Command::Calibrate => ask_turn_on(state),
+            Command::CalibrationOff => ask_turn_off(state),
+            _ => {}
+        }
+        return Vec::new();
+    }
     if let Some(detail) = &state.batches.detail {
         let code = detail.row.code.clone();
         let finalized = detail.row.finalized;
@@ -82,9 +95,125 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
             );
         }
         Command::StartBatch => open_batch_form(state),
+        Command::CompareBatches => return open_comparison(state),
         _ => {}
     }
     Vec::new()
+}
+
+/// Asks for predicted against measured over the batches the list shows; a
+/// correction would be for the recipe filtered on, else for the style of the
+/// recipe in the editor.
+fn open_comparison(state: &mut State) -> Vec<Effect> {
+    let query = &state.batches.query;
+    let scope = match &query.recipe {
+        Some(name) => Scope::Recipe(name.clone()),
+        None => Scope::Style(state.recipe.recipe.style.as_str().to_string()),
+    };
+    let request = CompareRequest {
+        recipe: query.recipe.clone(),
+        since: query.since.clone(),
+        scope: Some(scope),
+    };
+    state.tell("Setting the predictions against what was measured…");
+    vec![Effect::LoadComparison(request)]
+}
+
+/// Takes in the compare view; a view of the same request keeps its cursor.
+pub fn comparison_arrived(state: &mut State, mut view: CompareView) {
+    if let Some(old) = &state.batches.compare
+        && old.request == view.request
+    {
+        view.cursor = old.cursor.min(view.kinds.len().saturating_sub(1));
+    }
+    state.batches.detail = None;
+    state.batches.compare = Some(view);
+}
+
+/// Asks the log again for the compare view shown, if one is.
+pub fn reload_comparison(state: &State) -> Vec<Effect> {
+    state
+        .batches
+        .compare
+        .as_ref()
+        .map(|v| vec![Effect::LoadComparison(v.request.clone())])
+        .unwrap_or_default()
+}
+
+fn kind_under_cursor(state: &State) -> Option<&KindView> {
+    let view = state.batches.compare.as_ref()?;
+    view.kinds.get(view.cursor)
+}
+
+fn ask_turn_on(state: &mut State) {
+    let Some(k) = kind_under_cursor(state) else {
+        return;
+    };
+    let kind = k.summary.kind.clone();
+    match &k.preview {
+        Ok(_) => state.overlay = Some(Overlay::Confirm(Question::TurnOnCorrection(kind))),
+        Err(why) => {
+            let why = format!("No correction of {kind} to put in force: {why}");
+            state.tell(why);
+        }
+    }
+}
+
+fn ask_turn_off(state: &mut State) {
+    let Some(k) = kind_under_cursor(state) else {
+        return;
+    };
+    let kind = k.summary.kind.clone();
+    if k.in_force.is_some() {
+        state.overlay = Some(Overlay::Confirm(Question::TurnOffCorrection(kind)));
+    } else {
+        state.tell(format!("No correction of {kind} is in force here."));
+    }
+}
+
+/// The effect of putting the offered correction of `kind` in force, once confirmed.
+pub fn turn_on(state: &mut State, kind: &str) -> Vec<Effect> {
+    let by = match signer(state) {
+        Ok(by) => by,
+        Err(reason) => {
+            state.warn(reason);
+            return Vec::new();
+        }
+    };
+    match state
+        .batches
+        .compare
+        .as_ref()
+        .and_then(|v| v.kind(kind))
+        .map(|k| k.preview.clone())
+    {
+        Some(Ok(correction)) => vec![Effect::TurnOnCorrection { correction, by }],
+        _ => Vec::new(),
+    }
+}
+
+/// The effect of taking the correction of `kind` out of force, once confirmed.
+pub fn turn_off(state: &mut State, kind: &str) -> Vec<Effect> {
+    let by = match signer(state) {
+        Ok(by) => by,
+        Err(reason) => {
+            state.warn(reason);
+            return Vec::new();
+        }
+    };
+    let scope = state
+        .batches
+        .compare
+        .as_ref()
+        .and_then(|v| v.request.scope.clone());
+    match scope {
+        Some(scope) => vec![Effect::TurnOffCorrection {
+            kind: kind.to_string(),
+            scope,
+            by,
+        }],
+        None => Vec::new(),
+    }
 }
 
 /// Starts the log again from the newest batch for the current filters.

@@ -1,10 +1,10 @@
-//! What every screen's handler uses: moving a cursor, opening a prompt, and
+//! What every screen's handler uses: moving a cursor, opening a prompt, reading a form field, and
 //! matching typed words.
 
 use tui_input::Input;
 
 use super::super::action::Command;
-use super::super::state::{Overlay, PAGE_ROWS, Prompt, PromptPurpose, State};
+use super::super::state::{Form, Overlay, PAGE_ROWS, Prompt, PromptPurpose, State};
 
 /// Moves a cursor by a command over `len` rows; returns the new position.
 pub fn move_cursor(cursor: usize, len: usize, command: Command) -> usize {
@@ -30,4 +30,9 @@ pub fn prompt(state: &mut State, purpose: PromptPurpose, title: String, text: St
         input: Input::new(text),
         error: None,
     }));
+}
+
+/// The trimmed text of a form's field `at` ("" when there is none).
+pub fn field_value(form: &Form, at: usize) -> &str {
+    form.fields.get(at).map_or("", |f| f.input.value().trim())
 }

@@ -4,6 +4,7 @@
 
 use super::super::action::{Command, Effect};
 use super::super::state::{CatalogList, PromptPurpose, State};
+use super::characterise::open_characterise_form;
 use super::common::move_cursor;
 use super::common::prompt;
 use super::own_items::{open_ingredient_form, open_solute_form};
@@ -37,6 +38,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
         Command::NewIngredient => open_ingredient_form(state, None, None),
         Command::NewSolute => open_solute_form(state, None, None),
         Command::EditOwn => edit_selected(state),
+        Command::CharacteriseIngredient => open_characterise_form(state),
         Command::AddToRecipe => {
             if let Some(id) = state.selected_ingredient_id() {
                 ask_new_line_amount(state, &id);

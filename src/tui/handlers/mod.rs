@@ -6,6 +6,7 @@ mod common;
 
 pub mod batch_forms;
 pub mod batches;
+pub mod characterise;
 pub mod ingredients;
 pub mod own_items;
 pub mod recipe;

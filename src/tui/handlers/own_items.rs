@@ -399,7 +399,8 @@ pub fn submit(state: &mut State, form: &Form) -> Result<Vec<Effect>, String> {
     }
 }
 
-fn finish(state: &mut State) {
+/// After the library changed: the catalog, the analysis and the lists again.
+pub fn finish(state: &mut State) {
     state.refresh_catalog();
     state.reanalyse();
     state.refresh_ingredient_matches();

@@ -70,6 +70,7 @@ pub fn accept(state: &mut State, field: SettingField, text: &str) -> Result<Vec<
         SettingField::FreezerTemp => {
             state.settings.freezer_temp_c = parse_freezing_temp(text, unit)?
         }
+        SettingField::DrawShare => state.settings.draw_frozen_fraction = parse_share(text)?,
         SettingField::Operator => {
             let name = text.trim();
             if name.chars().count() > 60 {

@@ -1,8 +1,9 @@
 //! The batch log's part of the state: the query, the rows loaded so far, one
 //! batch's detail, and a new batch about to be recorded.
 
-use crate::batch::compare::Comparison;
+use crate::batch::compare::{Comparison, WithCorrections};
 use crate::batch::{BatchCursor, MeasurementKind};
+use crate::measure::{Correction, KindSummary, Scope};
 use crate::model::{Amount, Recipe};
 
 /// What the batch log shows.
@@ -82,6 +83,49 @@ pub struct BatchDetailView {
     pub notes: Vec<(String, String, String)>,
 }
 
+/// What the compare view asks the log for.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct CompareRequest {
+    /// Only batches of this recipe.
+    pub recipe: Option<String>,
+    /// Only batches made on or after this date (YYYY-MM-DD).
+    pub since: Option<String>,
+    /// What a correction would be for: the recipe filtered on, else the style of
+    /// the recipe in the editor.
+    pub scope: Option<Scope>,
+}
+
+/// One measured kind in the compare view.
+#[derive(Debug, Clone, PartialEq)]
+pub struct KindView {
+    /// Count, bias, RMSE, worst and flagged batches, chart points.
+    pub summary: KindSummary,
+    /// The statistics with the corrections in force, when any applied.
+    pub corrected: Option<WithCorrections>,
+    /// The correction fitted for the request's scope, or why there is none.
+    pub preview: Result<Correction, String>,
+    /// The correction in force for the request's scope, if any.
+    pub in_force: Option<Correction>,
+}
+
+/// Predicted against measured over the batches shown.
+#[derive(Debug, Clone, PartialEq)]
+pub struct CompareView {
+    /// What was asked.
+    pub request: CompareRequest,
+    /// One entry per measured kind, in the log's order.
+    pub kinds: Vec<KindView>,
+    /// The kind under the cursor.
+    pub cursor: usize,
+}
+
+impl CompareView {
+    /// The entry for `kind`.
+    pub fn kind(&self, kind: &str) -> Option<&KindView> {
+        self.kinds.iter().find(|k| k.summary.kind == kind)
+    }
+}
+
 /// A new batch to record.
 #[derive(Debug, Clone, PartialEq)]
 pub struct BatchRequest {
@@ -114,4 +158,6 @@ pub struct BatchesState {
     pub cursor: usize,
     /// The open batch.
     pub detail: Option<BatchDetailView>,
+    /// The compare view, when open (or on its way: `loading`).
+    pub compare: Option<CompareView>,
 }

@@ -14,6 +14,8 @@ pub enum Context {
     Batches,
     /// Looking at one batch.
     BatchDetail,
+    /// Predicted against measured over the batches of the log.
+    Compare,
     /// Browsing the settings.
     Settings,
     /// Typing into a one-line prompt.
@@ -30,12 +32,13 @@ pub enum Context {
 
 impl Context {
     /// Every context.
-    pub const ALL: [Context; 11] = [
+    pub const ALL: [Context; 12] = [
         Context::Global,
         Context::Recipe,
         Context::Ingredients,
         Context::Batches,
         Context::BatchDetail,
+        Context::Compare,
         Context::Settings,
         Context::Prompt,
         Context::Picker,
@@ -52,6 +55,7 @@ impl Context {
                 | Context::Ingredients
                 | Context::Batches
                 | Context::BatchDetail
+                | Context::Compare
                 | Context::Settings
         )
     }
@@ -69,6 +73,7 @@ impl Context {
             Context::Ingredients => "Ingredients",
             Context::Batches => "Batch log",
             Context::BatchDetail => "One batch",
+            Context::Compare => "Predicted against measured",
             Context::Settings => "Settings",
             Context::Prompt => "Typing a value",
             Context::Picker => "Picking from a list",

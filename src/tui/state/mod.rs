@@ -9,7 +9,7 @@ use crate::analysis::{
 };
 use crate::catalog::Catalog;
 use crate::model::units::trim_number;
-use crate::model::{Ingredient, MassUnit, Recipe, Solute, TempUnit};
+use crate::model::{MassUnit, Recipe, TempUnit};
 
 mod batches;
 mod context;
@@ -77,6 +77,8 @@ pub struct Settings {
     pub cabinet_temp_c: f64,
     /// Freezer temperature (°C).
     pub freezer_temp_c: f64,
+    /// Share of the water frozen at draw (0..1) the draw temperature is predicted at.
+    pub draw_frozen_fraction: f64,
     /// Who is working, written on new batches.
     pub operator: String,
 }
@@ -89,6 +91,7 @@ impl Default for Settings {
             serving_frozen_fraction: DEFAULT_SERVING_FROZEN_FRACTION,
             cabinet_temp_c: DEFAULT_CABINET_TEMP_C,
             freezer_temp_c: DEFAULT_FREEZER_TEMP_C,
+            draw_frozen_fraction: crate::measure::DEFAULT_DRAW_FROZEN_FRACTION,
             operator: String::new(),
         }
     }
@@ -168,13 +171,7 @@ pub struct IngredientsState {
 }
 
 /// The user's own solutes and ingredients.
-#[derive(Debug, Clone, Default, PartialEq)]
-pub struct OwnLibrary {
-    /// Own solutes.
-    pub solutes: Vec<Solute>,
-    /// Own ingredients.
-    pub ingredients: Vec<Ingredient>,
-}
+pub use crate::model::OwnItems as OwnLibrary;
 
 impl Settings {
     /// The value of a setting as it is typed (and shown, before its unit).
@@ -192,6 +189,7 @@ impl Settings {
             SettingField::FreezerTemp => {
                 format!("{:.1}", self.temp_unit.from_c(self.freezer_temp_c))
             }
+            SettingField::DrawShare => trim_number(100.0 * self.draw_frozen_fraction),
             SettingField::Operator => self.operator.clone(),
         }
     }
@@ -210,18 +208,21 @@ pub enum SettingField {
     CabinetTemp,
     /// Freezer temperature.
     FreezerTemp,
+    /// Share of water frozen at draw.
+    DrawShare,
     /// Operator name.
     Operator,
 }
 
 impl SettingField {
     /// Every setting, in screen order.
-    pub const ALL: [SettingField; 6] = [
+    pub const ALL: [SettingField; 7] = [
         SettingField::TempUnit,
         SettingField::MassUnit,
         SettingField::ServingTarget,
         SettingField::CabinetTemp,
         SettingField::FreezerTemp,
+        SettingField::DrawShare,
         SettingField::Operator,
     ];
 
@@ -233,6 +234,7 @@ impl SettingField {
             SettingField::ServingTarget => "Default serving target (water frozen)",
             SettingField::CabinetTemp => "Display cabinet temperature",
             SettingField::FreezerTemp => "Freezer temperature",
+            SettingField::DrawShare => "Water frozen at draw (predicted draw)",
             SettingField::Operator => "Operator",
         }
     }
@@ -357,6 +359,9 @@ impl State {
             Some(Overlay::Form(_)) => Context::Form,
             Some(Overlay::Reader(..)) => Context::Reader,
             Some(Overlay::Confirm(_)) => Context::Confirm,
+            None if self.screen == Screen::Batches && self.batches.compare.is_some() => {
+                Context::Compare
+            }
             None if self.screen == Screen::Batches && self.batches.detail.is_some() => {
                 Context::BatchDetail
             }

@@ -97,6 +97,8 @@ pub enum FormPurpose {
     Measurement(String),
     /// An amendment of the batch with this code.
     Amend(String),
+    /// An ingredient characterised from measured freezing points.
+    Characterise,
 }
 
 /// One field of a form.
@@ -152,6 +154,10 @@ pub enum Question {
     QuitUnsaved,
     /// Finalise the batch with this code.
     Finalize(String),
+    /// Put in force the correction of this kind the compare view offers.
+    TurnOnCorrection(String),
+    /// Take out the correction of this kind in force for the compare view's scope.
+    TurnOffCorrection(String),
 }
 
 /// Something drawn over the screen that takes the keys.

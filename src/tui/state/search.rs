@@ -8,6 +8,10 @@
 /// canned"). `None`: no match.
 pub fn search_key(name: &str, id: &str, query: &str) -> Option<(u8, usize)> {
     let rank = search_rank(name, id, query)?;
+    if query.trim().is_empty() {
+        // Nothing typed: every item matches alike, in name order.
+        return Some((rank, 0));
+    }
     let words = name
         .split(|c: char| !c.is_alphanumeric())
         .filter(|w| !w.is_empty())

@@ -10,15 +10,117 @@ use ratatui::widgets::{Block, Paragraph, Row, Table, TableState, Wrap};
 use super::super::state::{BatchDetailView, State};
 use crate::batch::MeasurementKind;
 
-use super::theme::{CURSOR_MARK, Theme};
+use super::theme::{CURSOR_MARK, PROBLEM_MARK, Theme};
+use crate::batch::compare::PredictedFrom;
 use crate::model::TempUnit;
 use crate::model::units::{format_mass, trim_number};
 
-/// Draws the batch log or the open batch.
+/// Draws the batch log, the open batch, or the compare view.
 pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
-    match &state.batches.detail {
-        Some(detail) => render_detail(state, detail, theme, frame, area),
-        None => render_list(state, theme, frame, area),
+    match (&state.batches.compare, &state.batches.detail) {
+        (Some(view), _) => super::compare::render(view, theme, frame, area),
+        (None, Some(detail)) => render_detail(state, detail, theme, frame, area),
+        (None, None) => render_list(state, theme, frame, area),
+    }
+}
+
+/// A value of `kind` as a bare number in the unit shown (temperatures in the
+/// display unit; `difference` for a difference of two temperatures).
+fn number(kind: MeasurementKind, value: f64, unit: TempUnit, difference: bool) -> String {
+    if kind.unit() == "°C" {
+        let shown = unit.from_c(value) - if difference { unit.from_c(0.0) } else { 0.0 };
+        return if difference {
+            format!("{shown:+.2}")
+        } else {
+            format!("{shown:.2}")
+        };
+    }
+    match (kind, difference) {
+        (MeasurementKind::MassG, false) => format!("{value:.0}"),
+        (MeasurementKind::MassG, true) => format!("{value:+.0}"),
+        (_, true) => format!("{value:+.2}"),
+        (_, false) => format!("{value:.2}"),
+    }
+}
+
+/// The unit a kind is shown in.
+fn shown_unit(kind: MeasurementKind, unit: TempUnit) -> &'static str {
+    match kind.unit() {
+        "°C" => unit.symbol(),
+        other => other,
+    }
+}
+
+/// Each predicted kind with its prediction, latest reading and difference; a
+/// corrected prediction and a reading far off on a line of their own.
+fn comparison_lines(d: &BatchDetailView, t: TempUnit, theme: Theme) -> Vec<Line<'static>> {
+    let mut lines = vec![Line::from(Span::styled(
+        format!(
+            "{:<12}{:<5}{:>7}{:>7}{:>7}",
+            "", "", "predic.", "meas.", "diff."
+        ),
+        theme.title(),
+    ))];
+    let mut recomputed = false;
+    for c in &d.comparisons {
+        let show = |v: Option<f64>| v.map_or("-".to_string(), |x| number(c.kind, x, t, false));
+        let mut predicted = show(c.predicted);
+        if c.predicted_from == PredictedFrom::RecipeText && c.predicted.is_some() {
+            predicted.push('*');
+            recomputed = true;
+        }
+        lines.push(Line::from(format!(
+            "{:<12}{:<5}{:>7}{:>7}{:>7}",
+            short_label(c.kind),
+            shown_unit(c.kind, t),
+            predicted,
+            show(c.measured),
+            c.difference()
+                .map_or(String::new(), |x| number(c.kind, x, t, true))
+        )));
+        if let Some(k) = &c.calibrated {
+            let difference = c.calibrated_difference().map_or(String::new(), |x| {
+                format!(", diff. {}", number(c.kind, x, t, true))
+            });
+            lines.push(Line::from(Span::styled(
+                format!(
+                    "  calibrated {}{difference}: {}",
+                    number(c.kind, k.value, t, false),
+                    k.basis
+                ),
+                theme.advice(),
+            )));
+        }
+        if let (Some(why), Some(_)) = (&c.no_prediction, c.measured) {
+            lines.push(Line::from(Span::styled(
+                format!("  no prediction: {why}"),
+                theme.dim(),
+            )));
+        }
+        if let Some(cause) = c.likely_causes.first() {
+            lines.push(Line::from(vec![
+                Span::styled(PROBLEM_MARK, theme.problem()),
+                Span::styled(format!("far off; likely: {cause}"), theme.problem()),
+            ]));
+        }
+    }
+    if recomputed {
+        lines.push(Line::from(Span::styled(
+            "* not recorded: computed now from the recorded recipe",
+            theme.dim(),
+        )));
+    }
+    lines
+}
+
+/// A short name for the comparison table.
+fn short_label(kind: MeasurementKind) -> &'static str {
+    match kind {
+        MeasurementKind::FreezingPointC => "freezing pt",
+        MeasurementKind::DrawTempC => "draw temp.",
+        MeasurementKind::ServingTempC => "serving temp",
+        MeasurementKind::MassG => "batch mass",
+        other => kind_label(other),
     }
 }
 
@@ -159,19 +261,7 @@ fn render_detail(state: &State, d: &BatchDetailView, theme: Theme, frame: &mut F
         left,
     );
     let t = state.settings.temp_unit;
-    let mut lines = vec![Line::from(Span::styled(
-        format!("{:<16}{:>10}{:>10}", "", "predicted", "measured"),
-        theme.title(),
-    ))];
-    for c in &d.comparisons {
-        let show = |v: Option<f64>| v.map_or("-".to_string(), |x| measured_text(c.kind, x, t));
-        lines.push(Line::from(format!(
-            "{:<16}{:>10}{:>10}",
-            kind_label(c.kind),
-            show(c.predicted),
-            show(c.measured)
-        )));
-    }
+    let mut lines = comparison_lines(d, t, theme);
     lines.push(Line::from(Span::styled("Measurements", theme.title())));
     for m in &d.measurements {
         lines.push(Line::from(format!(
@@ -211,6 +301,7 @@ pub fn kind_label(kind: MeasurementKind) -> &'static str {
         MeasurementKind::TitratableAcidityPct => "acidity",
         MeasurementKind::PasteuriseTempC => "pasteurised at",
         MeasurementKind::PasteuriseTimeS => "pasteurised for",
+        MeasurementKind::FreezingPointH => "freezing pt. °H",
     }
 }
 

@@ -4,6 +4,7 @@
 
 mod batches;
 mod chrome;
+mod compare;
 mod ingredients;
 mod overlay;
 mod recipe;

@@ -327,8 +327,25 @@ fn confirm(state: &State, q: &Question, theme: Theme, frame: &mut Frame, area: R
         Question::Finalize(_) => {
             "Finalise this batch? Afterwards it is corrected only by amendments.".to_string()
         }
+        Question::TurnOnCorrection(kind) => {
+            let basis = state
+                .batches
+                .compare
+                .as_ref()
+                .and_then(|v| v.kind(kind))
+                .and_then(|k| k.preview.as_ref().ok())
+                .map_or(String::new(), |c| format!(" ({})", c.basis));
+            format!(
+                "Put in force the correction of {kind}{basis}? It is stored as a new version; calibrated figures are marked, the plain ones stay beside them."
+            )
+        }
+        Question::TurnOffCorrection(kind) => {
+            format!("Take out the correction of {kind} in force? Its versions stay in the log.")
+        }
     };
-    let outer = centered(area, 60, 6);
+    // Room for the question wrapped in the box, a blank line and the keys.
+    let rows = (text.chars().count() / 54 + 1) as u16;
+    let outer = centered(area, 60, (rows + 4).max(6));
     let inner = boxed(frame, outer, "Are you sure?", theme);
     let keys: Vec<String> = keymap::bindings_in(Context::Confirm)
         .filter(|b| matches!(b.command, Command::Yes | Command::No))

@@ -23,7 +23,7 @@ pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
             };
             let mut value = state.settings.field_text(*field);
             match field {
-                SettingField::ServingTarget => value.push_str(" %"),
+                SettingField::ServingTarget | SettingField::DrawShare => value.push_str(" %"),
                 SettingField::CabinetTemp | SettingField::FreezerTemp => {
                     value.push(' ');
                     value.push_str(t);
