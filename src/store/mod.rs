@@ -9,6 +9,8 @@
 //! - [`tx`]: immediate write transactions with a bounded retry.
 //! - `recipes`, `batches`, `records`: writing records; `record`, `list`: reading them.
 //! - `import` (with `guards` and `checkpoint`): JSON Lines in; [`Store::each_batch`]: out.
+//! - `site`: this log's site code. `outbox` (what waits to be sent to the hub),
+//!   `pulled` (writing what came from it), `conflicts`: what `crate::sync` needs.
 //!
 //! Every write is one transaction: a crash or a refused request leaves nothing half
 //! written. Final records are never updated in place; triggers in the schema enforce it.
@@ -17,6 +19,7 @@ pub mod backup;
 mod batches;
 mod checkpoint;
 mod columns;
+mod conflicts;
 mod error;
 mod export;
 mod guards;
@@ -24,12 +27,16 @@ mod import;
 mod list;
 pub mod migrate;
 pub mod open;
+mod outbox;
+mod pulled;
 mod recipes;
 mod record;
 mod records;
 mod rows;
 mod search;
 mod seed;
+mod site;
+mod sync_types;
 pub mod tx;
 mod types;
 
@@ -38,6 +45,8 @@ use std::path::{Path, PathBuf};
 use rusqlite::Connection;
 
 pub use error::{Result, StoreError};
+pub use site::SITE_CODE_KEY;
+pub use sync_types::*;
 pub use types::*;
 
 /// An open batch log.

@@ -1,0 +1,1 @@
+//! Syncs killed at random moments.

@@ -1,0 +1,1 @@
+//! The hub's own rules.
