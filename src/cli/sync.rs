@@ -246,10 +246,15 @@ pub fn run(args: &SyncArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
         );
         code = ExitCode::from(1);
     }
-    if report.read_only && report.status.waiting() > 0 {
+    // A read-only sync fails only when records other than recipe versions wait: every
+    // new log's built-in sample versions wait until a sync that may write, and reach
+    // other sites' users only through the batches made from them.
+    let s = &report.status;
+    let unsent = s.batches + s.entries + s.finals + s.decisions;
+    if report.read_only && unsent > 0 {
         eprintln!(
-            "gelu: this account may only read the hub: {} record(s) wait here and were not sent",
-            report.status.waiting()
+            "gelu: this account may only read the hub: {unsent} record(s) (batches, sign-offs, \
+             readings, notes, amendments, decisions) wait here and were not sent"
         );
         code = ExitCode::from(1);
     }

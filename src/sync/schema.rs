@@ -25,13 +25,17 @@ pub fn latest_version() -> i64 {
     migrations().last().map_or(0, |m| m.version)
 }
 
-/// The version the hub has (0: not set up).
+/// The version the hub has (0: not set up). Read from the catalog tables with the
+/// statement's snapshot (not the cached catalog), so a schema another terminal has
+/// just committed is seen.
 fn found_version(client: &mut impl GenericClient) -> Result<i64, postgres::Error> {
     let row = client.query_one(
-        "SELECT CASE WHEN to_regclass('gelu.meta') IS NULL THEN NULL ELSE 1 END",
+        "SELECT EXISTS (SELECT 1 FROM pg_catalog.pg_class c
+                        JOIN pg_catalog.pg_namespace n ON n.oid = c.relnamespace
+                        WHERE n.nspname = 'gelu' AND c.relname = 'meta')",
         &[],
     )?;
-    if row.get::<_, Option<i32>>(0).is_none() {
+    if !row.get::<_, bool>(0) {
         return Ok(0);
     }
     let row = client.query_opt(
@@ -50,24 +54,16 @@ pub fn ensure(client: &mut Client, server: &str) -> Result<String, SyncError> {
     let supported = latest_version();
     let mut found = found_version(client).map_err(fail)?;
     if found < supported {
-        let mut tx = client.transaction().map_err(fail)?;
-        tx.execute("SELECT pg_advisory_xact_lock($1)", &[&SCHEMA_LOCK])
+        // The lock is taken before the transaction begins, so the transaction sees
+        // what a terminal that held it before has committed.
+        client
+            .execute("SELECT pg_advisory_lock($1)", &[&SCHEMA_LOCK])
             .map_err(fail)?;
-        found = found_version(&mut tx).map_err(fail)?;
-        if found < supported {
-            for step in migrations().iter().filter(|m| m.version > found) {
-                tx.batch_execute(step.sql)
-                    .map_err(|e| set_up_failed(server, e))?;
-            }
-            tx.execute(
-                "INSERT INTO gelu.meta (key, value) VALUES ('schema_version', $1)
-                 ON CONFLICT (key) DO UPDATE SET value = excluded.value",
-                &[&supported.to_string()],
-            )
-            .map_err(|e| set_up_failed(server, e))?;
-        }
-        tx.commit().map_err(fail)?;
-        found = found.max(supported);
+        let set_up = set_up(client, server, supported);
+        client
+            .execute("SELECT pg_advisory_unlock($1)", &[&SCHEMA_LOCK])
+            .map_err(fail)?;
+        found = set_up?;
     }
     if found > supported {
         return Err(SyncError::TooNew {
@@ -80,6 +76,29 @@ pub fn ensure(client: &mut Client, server: &str) -> Result<String, SyncError> {
         .query_one("SELECT value FROM gelu.meta WHERE key = 'hub_id'", &[])
         .map_err(fail)?;
     Ok(row.get(0))
+}
+
+/// Sets up or upgrades the hub in one transaction (the caller holds the lock);
+/// returns the version it then has.
+fn set_up(client: &mut Client, server: &str, supported: i64) -> Result<i64, SyncError> {
+    let fail = |e| SyncError::from_pg(server, e, false);
+    let mut tx = client.transaction().map_err(fail)?;
+    let found = found_version(&mut tx).map_err(fail)?;
+    if found >= supported {
+        return Ok(found);
+    }
+    for step in migrations().iter().filter(|m| m.version > found) {
+        tx.batch_execute(step.sql)
+            .map_err(|e| set_up_failed(server, e))?;
+    }
+    tx.execute(
+        "INSERT INTO gelu.meta (key, value) VALUES ('schema_version', $1)
+         ON CONFLICT (key) DO UPDATE SET value = excluded.value",
+        &[&supported.to_string()],
+    )
+    .map_err(|e| set_up_failed(server, e))?;
+    tx.commit().map_err(fail)?;
+    Ok(supported)
 }
 
 fn set_up_failed(server: &str, e: postgres::Error) -> SyncError {

@@ -172,3 +172,107 @@ impl Random {
         self.0
     }
 }
+
+/// Batch number `i` of a synthetic history written at `site`: four lines with lots,
+/// a reading, a note; every third signed off, every tenth amended after that.
+pub fn synthetic(i: usize, site: &str, recipe: &gelu::batch::RecipeVersion) -> gelu::batch::Batch {
+    use chrono::{Duration, TimeZone, Utc};
+    use gelu::batch::{
+        Amendment, Batch, BatchLine, Change, Measurement, MeasurementKind, Note, Status,
+    };
+    // Sites keep their own clocks: no two sites write at the same millisecond.
+    let offset_ms: i64 = site.bytes().map(i64::from).sum();
+    let at = Utc.with_ymd_and_hms(2026, 11, 1, 6, 0, 0).unwrap()
+        + Duration::minutes(i as i64)
+        + Duration::milliseconds(offset_ms);
+    let lines = ["whole-milk", "heavy-cream", "sucrose", "skim-milk-powder"]
+        .iter()
+        .enumerate()
+        .map(|(k, ing)| BatchLine {
+            ingredient: (*ing).to_owned(),
+            planned_g: 500.0,
+            actual_g: Some(500.0 + (i % 3) as f64),
+            lot: format!("L{k}-{:05}", i / 50),
+        })
+        .collect();
+    let amended = i.is_multiple_of(10);
+    let final_ = amended || i.is_multiple_of(3);
+    Batch {
+        code: format!("B-{}-{site}-{:05}", at.format("%Y%m%d"), i),
+        recipe: recipe.clone(),
+        made_at: at,
+        size_g: 2000.0,
+        operator: "cook".into(),
+        status: if amended {
+            Status::Amended
+        } else if final_ {
+            Status::Final
+        } else {
+            Status::Draft
+        },
+        finalized_at: final_.then_some(at + Duration::hours(1)),
+        finalized_by: final_.then(|| "head".to_owned()),
+        lines,
+        measurements: vec![Measurement {
+            kind: MeasurementKind::DrawTempC,
+            value: -6.0 - (i % 20) as f64 / 10.0,
+            taken_at: at,
+            by: "cook".into(),
+        }],
+        notes: vec![Note {
+            text: format!("batch {i} of {site}"),
+            written_at: at,
+            by: "cook".into(),
+        }],
+        amendments: if amended {
+            vec![Amendment {
+                amended_at: at + Duration::hours(2),
+                by: "head".into(),
+                reason: "lot misread".into(),
+                changes: vec![Change::Lot {
+                    line: 3,
+                    ingredient: "sucrose".into(),
+                    old: format!("L2-{:05}", i / 50),
+                    new: "S-FIXED".into(),
+                }],
+            }]
+        } else {
+            vec![]
+        },
+        prediction: serde_json::json!({"freezing_point_c": -2.5, "mass_g": 2000.0}),
+    }
+}
+
+impl Site {
+    /// Writes `n` synthetic batches into the log (through the library's import).
+    pub fn fill(&self, n: usize) {
+        let mut store = gelu::store::Store::open(&self.db).unwrap();
+        let r = store.recipes().unwrap().remove(0);
+        let recipe = gelu::batch::RecipeVersion {
+            recipe: r.name,
+            version: r.latest_version,
+            content_hash: gelu::batch::version::content_hash(&r.latest_text),
+            text: r.latest_text,
+        };
+        let list: Vec<_> = (0..n).map(|i| synthetic(i, &self.code, &recipe)).collect();
+        let report = store.import_batches(&list).unwrap();
+        assert_eq!(report.imported, n, "{:?}", report.errors.first());
+    }
+}
+
+/// Asserts two exports are identical, saying where they part (not printing them whole).
+pub fn assert_same_records(a: &str, b: &str, what: &str) {
+    if a == b {
+        return;
+    }
+    let (la, lb): (Vec<&str>, Vec<&str>) = (a.lines().collect(), b.lines().collect());
+    let at = la.iter().zip(&lb).position(|(x, y)| x != y);
+    let cut = |s: &str| s.chars().take(600).collect::<String>();
+    panic!(
+        "{what}: {} and {} records; first difference at record {at:?}:\n{}\n{}",
+        la.len(),
+        lb.len(),
+        at.map(|i| cut(la[i])).unwrap_or_default(),
+        at.map(|i| cut(lb[i])).unwrap_or_default(),
+    );
+}
