@@ -11,4 +11,5 @@ mod conflicts;
 mod crash;
 mod hub_rules;
 mod outage;
+mod tls;
 mod two_sites;

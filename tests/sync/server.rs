@@ -163,6 +163,25 @@ impl Server {
         );
     }
 
+    /// Puts `line` first in the server's pg_hba.conf and reloads it.
+    pub fn prepend_hba(&self, line: &str) {
+        let path = self.dir.join("data/pg_hba.conf");
+        let old = std::fs::read_to_string(&path).expect("pg_hba.conf");
+        std::fs::write(&path, format!("{line}\n{old}")).expect("pg_hba.conf");
+        run(
+            as_server_user(pg_bin("pg_ctl"))
+                .arg("-D")
+                .arg(self.dir.join("data"))
+                .arg("reload"),
+            "pg_ctl reload",
+        );
+    }
+
+    /// The folder the server keeps its files in (readable by the server's user).
+    pub fn folder(&self) -> &Path {
+        &self.dir
+    }
+
     /// Stops the server at once (as a crash or a pulled plug would).
     pub fn stop_now(&self) {
         run(
