@@ -10,11 +10,8 @@ use serde_json::{Value, json};
 
 use super::batch::who;
 use super::db::open_store;
-use crate::store::{Store, SyncStatus};
+use crate::store::{SYNC_URL_KEY, Store, SyncStatus};
 use crate::sync::{self, Moved, SyncReport, Target};
-
-/// The setting that names the hub.
-pub const SYNC_URL_KEY: &str = "sync_url";
 
 /// Arguments of `gelu sync`.
 #[derive(Debug, clap::Args)]

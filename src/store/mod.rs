@@ -45,7 +45,7 @@ use std::path::{Path, PathBuf};
 use rusqlite::Connection;
 
 pub use error::{Result, StoreError};
-pub use site::SITE_CODE_KEY;
+pub use site::{SITE_CODE_KEY, SYNC_URL_KEY};
 pub use sync_types::*;
 pub use types::*;
 

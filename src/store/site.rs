@@ -10,6 +10,9 @@ use crate::batch::shared::check_site_code;
 /// The settings key of the site code.
 pub const SITE_CODE_KEY: &str = "site_code";
 
+/// The settings key of the hub's address (never with a password).
+pub const SYNC_URL_KEY: &str = "sync_url";
+
 /// The site code (migration 3 gives every log one).
 pub(crate) fn site_code(conn: &Connection) -> Result<String> {
     conn.prepare_cached("SELECT value FROM settings WHERE key = ?1")?

@@ -8,7 +8,7 @@ use crate::batch::compare::comparisons;
 use crate::batch::{Batch, BatchSummary};
 use crate::model::{Amount, Ingredient, Line, Recipe, Solute};
 use crate::recipe_file::{parse_recipe, recipe_to_toml};
-use crate::store::{CustomItem, Store};
+use crate::store::{CustomItem, SYNC_URL_KEY, Store};
 
 use super::super::state::{BatchDetailView, BatchRow, MeasurementRow, OwnLibrary, Settings};
 use crate::model::{MassUnit, TempUnit};
@@ -41,6 +41,7 @@ pub fn settings_pairs(s: &Settings) -> Vec<(&'static str, String)> {
         (KEY_CABINET, s.cabinet_temp_c.to_string()),
         (KEY_FREEZER, s.freezer_temp_c.to_string()),
         (KEY_OPERATOR, s.operator.clone()),
+        (SYNC_URL_KEY, s.sync_url.clone()),
     ]
 }
 
@@ -79,6 +80,10 @@ pub fn load_settings(store: &Store) -> Settings {
     if let Some(v) = get(KEY_OPERATOR) {
         s.operator = v;
     }
+    if let Some(v) = get(SYNC_URL_KEY) {
+        s.sync_url = v;
+    }
+    s.site_code = store.site_code().unwrap_or_default();
     s
 }
 

@@ -77,6 +77,10 @@ pub struct Settings {
     pub freezer_temp_c: f64,
     /// Who is working, written on new batches.
     pub operator: String,
+    /// This log's site code, carried by new batch codes (renamed through the store).
+    pub site_code: String,
+    /// The hub's address (`sync_url`), never with a password; empty when none.
+    pub sync_url: String,
 }
 
 impl Default for Settings {
@@ -88,6 +92,8 @@ impl Default for Settings {
             cabinet_temp_c: DEFAULT_CABINET_TEMP_C,
             freezer_temp_c: DEFAULT_FREEZER_TEMP_C,
             operator: String::new(),
+            site_code: String::new(),
+            sync_url: String::new(),
         }
     }
 }
@@ -191,6 +197,8 @@ impl Settings {
                 format!("{:.1}", self.temp_unit.from_c(self.freezer_temp_c))
             }
             SettingField::Operator => self.operator.clone(),
+            SettingField::SiteCode => self.site_code.clone(),
+            SettingField::SyncUrl => self.sync_url.clone(),
         }
     }
 }
@@ -210,16 +218,22 @@ pub enum SettingField {
     FreezerTemp,
     /// Operator name.
     Operator,
+    /// This log's site code.
+    SiteCode,
+    /// The hub's address.
+    SyncUrl,
 }
 
 impl SettingField {
     /// Every setting, in screen order.
-    pub const ALL: [SettingField; 6] = [
+    pub const ALL: [SettingField; 8] = [
         SettingField::TempUnit,
         SettingField::MassUnit,
         SettingField::ServingTarget,
         SettingField::CabinetTemp,
         SettingField::FreezerTemp,
+        SettingField::SiteCode,
+        SettingField::SyncUrl,
         SettingField::Operator,
     ];
 
@@ -232,6 +246,8 @@ impl SettingField {
             SettingField::CabinetTemp => "Display cabinet temperature",
             SettingField::FreezerTemp => "Freezer temperature",
             SettingField::Operator => "Operator",
+            SettingField::SiteCode => "Site code (in new batch codes)",
+            SettingField::SyncUrl => "Sync server (hub URL, no password)",
         }
     }
 }
