@@ -265,6 +265,15 @@ impl Store {
         })
     }
 
+    /// Whether this log has ever synchronised with a hub.
+    pub fn has_synced(&self) -> Result<bool> {
+        Ok(self.conn.query_row(
+            "SELECT EXISTS (SELECT 1 FROM sync_state WHERE key = 'hub')",
+            [],
+            |r| r.get(0),
+        )?)
+    }
+
     /// How far a pull has got with the hub's rows of one kind (0 at first).
     pub fn sync_mark(&self, key: &str) -> Result<i64> {
         mark(&self.conn, key)

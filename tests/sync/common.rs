@@ -7,7 +7,7 @@
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 
-use crate::server::ADMIN_PASSWORD;
+use crate::server::admin_password;
 
 /// The house vanilla sample recipe.
 pub const VANILLA: &str = concat!(
@@ -53,7 +53,7 @@ impl Site {
             .env_remove("GELU_DB")
             .env_remove("GELU_SYNC_URL")
             .env("PGPASSFILE", "/nonexistent/pgpass")
-            .env("PGPASSWORD", ADMIN_PASSWORD)
+            .env("PGPASSWORD", admin_password())
             .env("USER", "tester");
         cmd
     }

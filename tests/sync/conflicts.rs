@@ -6,7 +6,7 @@
 use serde_json::Value;
 
 use crate::common::{Site, VANILLA, stderr};
-use crate::server::{ADMIN, shared};
+use crate::server::shared;
 
 /// Imports one batch under the old code form, made by `operator`.
 fn legacy_batch(site: &Site, code: &str, operator: &str) {
@@ -33,7 +33,7 @@ fn conflicts(site: &Site) -> Vec<Value> {
 fn same_code_other_content_is_kept_on_both_sides_and_decided_by_a_person() {
     let server = shared();
     let db = server.new_database("conflicts");
-    let url = server.url(ADMIN, &db);
+    let url = server.admin(&db);
     let (kitchen, shop) = (Site::new("KTN"), Site::new("SHP"));
     let code = "B-20261130-0001";
     legacy_batch(&kitchen, code, "Ines");

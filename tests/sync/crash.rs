@@ -7,7 +7,7 @@ use std::process::Stdio;
 use std::time::{Duration, Instant};
 
 use crate::common::{Random, Site, assert_same_records};
-use crate::server::{ADMIN, shared};
+use crate::server::shared;
 
 /// Runs `gelu sync` at `site` and kills it after a random moment within `span`,
 /// `rounds` times; returns how many runs were killed before they finished.
@@ -35,7 +35,7 @@ fn kill_syncs(site: &Site, url: &str, rounds: usize, span: Duration, random: &mu
 fn killed_syncs_lose_and_double_nothing(rounds: usize, batches: usize) {
     let server = shared();
     let db = server.new_database("crash");
-    let url = server.url(ADMIN, &db);
+    let url = server.admin(&db);
     let (kitchen, shop) = (Site::new("KTN"), Site::new("SHP"));
     kitchen.fill(batches);
     shop.fill(batches / 3);
@@ -46,7 +46,7 @@ fn killed_syncs_lose_and_double_nothing(rounds: usize, batches: usize) {
     std::fs::copy(&kitchen.db, &probe.db).unwrap();
     let probe_db = server.new_database("crash_probe");
     let started = Instant::now();
-    probe.sync_ok(&server.url(ADMIN, &probe_db));
+    probe.sync_ok(&server.admin(&probe_db));
     // Kills land in the first 70 % of that, where a sync is still working.
     let span = started.elapsed() * 7 / 10;
     eprintln!("a whole sync takes {:?}", started.elapsed());
@@ -100,7 +100,7 @@ fn killed_many_times_syncs_still_lose_and_double_nothing() {
 fn four_terminals_syncing_at_once_end_with_the_same_records() {
     let server = shared();
     let db = server.new_database("four");
-    let url = server.url(ADMIN, &db);
+    let url = server.admin(&db);
     let sites: Vec<Site> = ["NRT", "EST", "STH", "WST"]
         .iter()
         .map(|code| {

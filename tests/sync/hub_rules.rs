@@ -3,7 +3,7 @@
 //! pulls but does not push; a hub newer than the program is refused untouched.
 
 use crate::common::{Site, stderr};
-use crate::server::{ADMIN, shared};
+use crate::server::{admin_password, shared};
 
 #[test]
 fn the_hub_refuses_to_change_or_delete_a_record_even_for_its_owner() {
@@ -12,7 +12,7 @@ fn the_hub_refuses_to_change_or_delete_a_record_even_for_its_owner() {
     let kitchen = Site::new("KTN");
     let code = kitchen.new_batch("a batch");
     kitchen.run(&["batch", "finalize", &code, "--by", "Ines"]);
-    kitchen.sync_ok(&server.url(ADMIN, &db));
+    kitchen.sync_ok(&server.admin(&db));
     for sql in [
         "UPDATE gelu.batches SET size_g = 1",
         "DELETE FROM gelu.batch_lines",
@@ -30,7 +30,7 @@ fn the_hub_refuses_to_change_or_delete_a_record_even_for_its_owner() {
 fn a_row_changed_on_the_hub_behind_gelus_back_is_refused_and_shown() {
     let server = shared();
     let db = server.new_database("tampered");
-    let url = server.url(ADMIN, &db);
+    let url = server.admin(&db);
     let (kitchen, shop) = (Site::new("KTN"), Site::new("SHP"));
     let changed = kitchen.new_batch("its size will be changed");
     let relotted = kitchen.new_batch("its lot will be changed");
@@ -82,18 +82,19 @@ fn an_account_that_may_only_read_pulls_but_does_not_push() {
     let db = server.new_database("reader");
     let kitchen = Site::new("KTN");
     let made = kitchen.new_batch("from the kitchen");
-    kitchen.sync_ok(&server.url(ADMIN, &db));
+    kitchen.sync_ok(&server.admin(&db));
     server.sql(
         &db,
         &format!(
             "DO $$ BEGIN
                IF NOT EXISTS (SELECT 1 FROM pg_roles WHERE rolname = 'shop_reader') THEN
-                 CREATE ROLE shop_reader LOGIN PASSWORD 'harbour-test';
+                 CREATE ROLE shop_reader LOGIN PASSWORD '{pw}';
                END IF;
              END $$;
              GRANT CONNECT ON DATABASE {db} TO shop_reader;
              GRANT USAGE ON SCHEMA gelu TO shop_reader;
-             GRANT SELECT ON ALL TABLES IN SCHEMA gelu TO shop_reader;"
+             GRANT SELECT ON ALL TABLES IN SCHEMA gelu TO shop_reader;",
+            pw = admin_password()
         ),
     );
     let reader = server.url("shop_reader", &db);
@@ -112,7 +113,7 @@ fn an_account_that_may_only_read_pulls_but_does_not_push() {
     // The account cannot write there by other means either.
     let direct = std::process::Command::new(crate::server::pg_bin("psql"))
         .arg(&reader)
-        .env("PGPASSWORD", "harbour-test")
+        .env("PGPASSWORD", admin_password())
         .args(["-X", "-c", "DELETE FROM gelu.meta"])
         .output()
         .unwrap();
@@ -136,7 +137,7 @@ fn an_account_that_may_only_read_pulls_but_does_not_push() {
 fn a_hub_newer_than_the_program_is_refused_untouched() {
     let server = shared();
     let db = server.new_database("newer");
-    let url = server.url(ADMIN, &db);
+    let url = server.admin(&db);
     let kitchen = Site::new("KTN");
     kitchen.sync_ok(&url);
     server.sql(

@@ -6,7 +6,7 @@ use std::path::Path;
 use std::process::Command;
 
 use crate::common::{Site, stderr};
-use crate::server::{ADMIN, Server};
+use crate::server::Server;
 
 fn openssl(dir: &Path, args: &[&str]) {
     let out = Command::new("openssl")
@@ -117,7 +117,7 @@ fn tls_is_used_when_the_url_asks_and_the_certificate_is_checked() {
     server.prepend_hba("hostnossl all all 0.0.0.0/0 reject");
     let db = server.new_database("tls");
     let ca = certs.path().join("ca.pem");
-    let plain = server.url(ADMIN, &db);
+    let plain = server.admin(&db);
     let named = plain.replace("127.0.0.1", "localhost");
 
     let site = Site::new("KTN");

@@ -7,7 +7,7 @@
 use serde_json::Value;
 
 use crate::common::{Site, VANILLA, assert_same_records};
-use crate::server::{ADMIN, shared};
+use crate::server::{admin_password, shared};
 
 fn show(site: &Site, code: &str) -> Value {
     let out = site.run(&["batch", "show", code, "--json"]);
@@ -18,7 +18,7 @@ fn show(site: &Site, code: &str) -> Value {
 fn two_sites_offline_then_synced_hold_the_same_records() {
     let server = shared();
     let db = server.new_database("two_sites");
-    let url = server.url(ADMIN, &db);
+    let url = server.admin(&db);
     let kitchen = Site::new("KTN");
     let shop = Site::new("SHP");
 
@@ -83,7 +83,10 @@ fn two_sites_offline_then_synced_hold_the_same_records() {
         assert!(first.get(key).is_some(), "sync JSON lacks `{key}`: {first}");
     }
     assert!(
-        !first["server"].as_str().unwrap().contains("harbour-test"),
+        !first["server"]
+            .as_str()
+            .unwrap()
+            .contains(&admin_password()),
         "no password shown"
     );
     let second = shop.sync_ok(&url);
@@ -150,5 +153,39 @@ fn two_sites_offline_then_synced_hold_the_same_records() {
             "SELECT count(DISTINCT code) FROM gelu.batch_lines WHERE lot = 'S-1'"
         ),
         "a lot's recall on the hub finds each batch once"
+    );
+}
+
+/// `tests/fixtures/batch-log-v2.db`, written by the schema-2 release (before site codes).
+const V2_DB: &str = concat!(
+    env!("CARGO_MANIFEST_DIR"),
+    "/tests/fixtures/batch-log-v2.db"
+);
+
+#[test]
+fn a_log_made_before_site_codes_keeps_its_codes_and_shares_its_history() {
+    let server = shared();
+    let db = server.new_database("old_log");
+    let url = server.admin(&db);
+    let old = Site::new("OLD");
+    std::fs::copy(V2_DB, &old.db).unwrap();
+    let before = old.export();
+    assert!(
+        before.contains("\"B-20261202-0001\""),
+        "the fixture's own codes"
+    );
+    let pushed = old.sync_ok(&url);
+    assert_eq!(pushed["pushed"]["batches"], 3, "{pushed}");
+    let shop = Site::new("SHP");
+    shop.sync_ok(&url);
+    assert_same_records(
+        &shop.export(),
+        &before,
+        "the old log's history at another site",
+    );
+    assert_eq!(
+        old.export(),
+        before,
+        "the old log itself is unchanged by syncing"
     );
 }

@@ -18,13 +18,22 @@ fn hub_url(store: &Store) -> Option<String> {
         .filter(|u| !u.trim().is_empty())
 }
 
-/// Where the log stands with the hub.
+/// Where the log stands with the hub. A log with no hub set that never synchronised
+/// is not counted through (on a large single-site log that would cost a scan, and
+/// nothing waits for anyone there).
 pub fn view(store: &Store) -> anyhow::Result<SyncView> {
+    let hub_set = hub_url(store).is_some();
+    if !hub_set && !store.has_synced()? {
+        return Ok(SyncView {
+            site: store.site_code()?,
+            ..SyncView::default()
+        });
+    }
     let s = store.sync_status()?;
     Ok(SyncView {
         waiting: s.waiting(),
         site: s.site,
-        hub_set: hub_url(store).is_some(),
+        hub_set,
         last_sync: s.last_sync,
         conflicts: s.conflicts,
         running: false,
