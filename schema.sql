@@ -247,3 +247,99 @@ CREATE TRIGGER calibration_switches_append_only_update BEFORE UPDATE ON calibrat
 BEGIN SELECT RAISE(ABORT, 'a calibration switch is never changed; switch again'); END;
 CREATE TRIGGER calibration_switches_append_only_delete BEFORE DELETE ON calibration_switches
 BEGIN SELECT RAISE(ABORT, 'a calibration switch is never deleted'); END;
+
+-- migration 4
+-- Several sites, one history (src/sync/): the log stays the working copy and a
+-- PostgreSQL server is the hub that logs push to and pull from. Records written here
+-- keep NULL in the new columns; a record pulled from the hub carries the site that
+-- wrote it and its identity there. Only columns and tables are added, so the rows and
+-- triggers of migrations 1 and 2 are untouched.
+--
+-- This log's site code: short, random, readable (no I, O, 0 or 1), renamable until
+-- the first batch is written under it or the log first synchronises. New batch codes
+-- carry it: B-YYYYMMDD-SITE-NNNN.
+INSERT INTO settings (key, value)
+SELECT 'site_code',
+       substr('ABCDEFGHJKLMNPQRSTUVWXYZ23456789', 1 + (abs(random()) % 24), 1) ||
+       substr('ABCDEFGHJKLMNPQRSTUVWXYZ23456789', 1 + (abs(random()) % 32), 1) ||
+       substr('ABCDEFGHJKLMNPQRSTUVWXYZ23456789', 1 + (abs(random()) % 32), 1) ||
+       substr('ABCDEFGHJKLMNPQRSTUVWXYZ23456789', 1 + (abs(random()) % 32), 1)
+WHERE NOT EXISTS (SELECT 1 FROM settings WHERE key = 'site_code');
+
+-- A recipe version pulled from the hub: the site that saved it, and its number there
+-- when that number was already taken here by other text (a conflict, kept and shown).
+ALTER TABLE recipe_versions ADD COLUMN site TEXT;
+ALTER TABLE recipe_versions ADD COLUMN origin_version INTEGER;
+
+-- Readings, notes and amendments pulled from the hub: the site that wrote them, their
+-- place in the batch's list there (the list is read in that order, ties by time, so
+-- every site lists them alike), and their identity on the hub. A row written here
+-- keeps NULL and takes its place from its rank in the list.
+ALTER TABLE measurements ADD COLUMN site TEXT;
+ALTER TABLE measurements ADD COLUMN position INTEGER;
+ALTER TABLE measurements ADD COLUMN entry_hash TEXT;
+ALTER TABLE batch_notes ADD COLUMN site TEXT;
+ALTER TABLE batch_notes ADD COLUMN position INTEGER;
+ALTER TABLE batch_notes ADD COLUMN entry_hash TEXT;
+ALTER TABLE amendments ADD COLUMN site TEXT;
+ALTER TABLE amendments ADD COLUMN position INTEGER;
+ALTER TABLE amendments ADD COLUMN entry_hash TEXT;
+CREATE INDEX measurements_by_entry_hash ON measurements (entry_hash) WHERE entry_hash IS NOT NULL;
+CREATE INDEX batch_notes_by_entry_hash ON batch_notes (entry_hash) WHERE entry_hash IS NOT NULL;
+CREATE INDEX amendments_by_entry_hash ON amendments (entry_hash) WHERE entry_hash IS NOT NULL;
+
+-- Every batch the hub holds, with the site that wrote it and its identity there
+-- (pulled = 1: it came from the hub; 0: it was pushed from here).
+CREATE TABLE sync_heads (
+    batch_id    INTEGER PRIMARY KEY REFERENCES batches(id),
+    site        TEXT NOT NULL,
+    head_hash   TEXT NOT NULL,
+    pulled      INTEGER NOT NULL CHECK (pulled IN (0, 1))
+) STRICT;
+
+-- Sign-offs made here that the hub has not yet been sent (a queue: sent rows leave).
+CREATE TABLE sync_finals_waiting (
+    batch_id    INTEGER PRIMARY KEY REFERENCES batches(id)
+) STRICT;
+CREATE TRIGGER batches_final_waits_for_sync AFTER UPDATE OF status ON batches
+WHEN OLD.status = 'draft' AND NEW.status = 'final'
+BEGIN
+    INSERT OR IGNORE INTO sync_finals_waiting (batch_id) VALUES (NEW.id);
+END;
+
+-- How far pushing and pulling have got with which hub, and when the last sync ended.
+CREATE TABLE sync_state (
+    key         TEXT PRIMARY KEY,
+    value       TEXT NOT NULL
+) STRICT;
+
+-- Records pulled from the hub that could not take their place here: another record
+-- holds the same code with other content, or the row no longer matches its identity.
+-- Both are kept: the local one where it was, the other here, whole, as pulled, until a
+-- person decides (`gelu sync --resolve`). A decision is written once and never undone.
+CREATE TABLE sync_conflicts (
+    id          INTEGER PRIMARY KEY,
+    kind        TEXT NOT NULL,
+    code        TEXT NOT NULL,
+    site        TEXT NOT NULL,
+    entry_hash  TEXT NOT NULL,
+    found_at    TEXT NOT NULL,
+    detail      TEXT NOT NULL,
+    record      TEXT NOT NULL,
+    decided_at  TEXT,
+    decided_by  TEXT,
+    decision    TEXT,
+    UNIQUE (kind, code, entry_hash)
+) STRICT;
+CREATE TRIGGER sync_conflicts_kept BEFORE DELETE ON sync_conflicts
+BEGIN SELECT RAISE(ABORT, 'a sync conflict is never deleted; decide it with gelu sync --resolve'); END;
+CREATE TRIGGER sync_conflicts_decided_once BEFORE UPDATE ON sync_conflicts
+WHEN OLD.decided_at IS NOT NULL OR NEW.kind IS NOT OLD.kind OR NEW.code IS NOT OLD.code
+  OR NEW.site IS NOT OLD.site OR NEW.entry_hash IS NOT OLD.entry_hash
+  OR NEW.record IS NOT OLD.record OR NEW.detail IS NOT OLD.detail
+BEGIN SELECT RAISE(ABORT, 'a sync conflict is kept as found and decided once'); END;
+
+-- Decisions taken here that the hub has not yet been sent (a queue: sent rows leave).
+CREATE TABLE sync_decisions_waiting (
+    conflict_id INTEGER PRIMARY KEY REFERENCES sync_conflicts(id)
+) STRICT;

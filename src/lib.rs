@@ -54,5 +54,6 @@ pub mod recipe_file;
 pub mod report;
 pub mod samples;
 pub mod store;
+pub mod sync;
 pub mod thermo;
 pub mod tui;

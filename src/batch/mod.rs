@@ -1,7 +1,8 @@
 //! The batch domain, pure: what a batch record is ([`types`]), planning one from a
 //! recipe ([`plan`]), correcting it by amendments ([`amend`]), checking it
 //! ([`validate`]), setting its readings against its prediction ([`compare`]), and
-//! its public JSON and CSV forms ([`jsonl`], [`csv`], [`export`]). No SQL, files or
+//! its public JSON and CSV forms ([`jsonl`], [`csv`], [`export`]), and records as
+//! sites share them, each with a stable identity ([`shared`]). No SQL, files or
 //! clock here: the store keeps these records, the command line and the workspace
 //! show them, and times are passed in.
 
@@ -12,6 +13,7 @@ pub mod export;
 pub mod jsonl;
 pub mod plan;
 pub mod reading;
+pub mod shared;
 mod types;
 pub mod validate;
 pub mod version;

@@ -7,6 +7,7 @@ mod characterise;
 mod db;
 pub mod own;
 mod report;
+pub mod sync;
 
 use std::path::PathBuf;
 use std::process::ExitCode;
@@ -36,6 +37,11 @@ pub enum Command {
     Batch(batch::BatchArgs),
     /// The batch-log database: path, check, backup.
     Db(db::DbArgs),
+    /// Synchronise the batch log with the hub (a PostgreSQL server): send what it
+    /// lacks, receive what the log lacks; --status says what waits.
+    Sync(sync::SyncArgs),
+    /// This log's site code (carried by new batch codes); give one to rename it.
+    Site(sync::SiteArgs),
     /// Open a recipe file in the workspace.
     Edit {
         /// The recipe file (TOML).
@@ -55,6 +61,8 @@ pub fn run() -> ExitCode {
         Some(Command::Characterise(args)) => characterise::run(&args),
         Some(Command::Batch(args)) => batch::run(&args, cli.db.as_deref()),
         Some(Command::Db(args)) => db::run(&args, cli.db.as_deref()),
+        Some(Command::Sync(args)) => sync::run(&args, cli.db.as_deref()),
+        Some(Command::Site(args)) => sync::run_site(&args, cli.db.as_deref()),
         Some(Command::Edit { file }) => workspace(cli.db, Some(file)),
         // Without a terminal (a pipe, a script) print the sample report instead.
         None if !std::io::IsTerminal::is_terminal(&std::io::stdout()) => report::run_samples(),

@@ -13,15 +13,16 @@ use super::error::{Result, StoreError};
 use super::recipes;
 use super::records::{self, NewRecord};
 use super::search::{self, Pending, Slot};
+use super::site;
 use crate::batch::amend::{self, Edit};
 use crate::batch::validate::check_name;
 use crate::batch::{Amendment, Batch, Measurement, MeasurementKind, NewBatch, Note, Status};
 use crate::clock;
 use crate::model::time::time_text;
 
-/// The next free code for a day: `B-YYYYMMDD-NNNN`.
+/// The next free code of this site for a day: `B-YYYYMMDD-SITE-NNNN`.
 fn next_code(tx: &Transaction, made_at: &DateTime<Utc>) -> Result<String> {
-    let prefix = format!("B-{}-", made_at.format("%Y%m%d"));
+    let prefix = site::code_prefix(&site::site_code(tx)?, &made_at.format("%Y%m%d").to_string());
     let last: Option<i64> = tx.query_row(
         "SELECT max(CAST(substr(code, ?2) AS INTEGER)) FROM batches WHERE code GLOB ?1",
         params![format!("{prefix}[0-9]*"), prefix.len() as i64 + 1],
@@ -54,6 +55,17 @@ pub(crate) fn existing_codes(conn: &Connection, codes: &[&str]) -> Result<HashSe
         .query_map([list], |r| r.get(0))?
         .collect::<rusqlite::Result<_>>()?;
     Ok(found)
+}
+
+/// Signs off the draft batch with row id `id`: when (RFC 3339) and by whom. The one
+/// statement that makes a record final, here or when a sign-off is pulled.
+pub(crate) fn sign_off(tx: &Transaction, id: i64, at: &str, by: &str) -> Result<()> {
+    tx.execute(
+        "UPDATE batches SET status = 'final', finalized_at = ?2, finalized_by = ?3
+         WHERE id = ?1 AND status = 'draft'",
+        params![id, at, by],
+    )?;
+    Ok(())
 }
 
 /// How many rows of `table` (a literal name, never user input) belong to a batch.
@@ -183,12 +195,7 @@ impl Store {
                     "{code} is already final; correct it with `gelu batch amend`"
                 )));
             }
-            tx.execute(
-                "UPDATE batches SET status = 'final', finalized_at = ?2, finalized_by = ?3
-                 WHERE id = ?1 AND status = 'draft'",
-                params![id, at, by],
-            )?;
-            Ok(())
+            sign_off(tx, id, &at, by)
         })?;
         self.require(code)
     }

@@ -11,6 +11,8 @@
 //! - `import` (with `guards` and `checkpoint`): JSON Lines in; [`Store::each_batch`]: out.
 //! - `calibrations`: the versions of the corrections fitted from batches, and
 //!   the switches that put them in force.
+//! - `site`: this log's site code. `outbox` (what waits to be sent to the hub),
+//!   `pulled` (writing what came from it), `conflicts`: what `crate::sync` needs.
 //!
 //! Every write is one transaction: a crash or a refused request leaves nothing half
 //! written. Final records are never updated in place; triggers in the schema enforce it.
@@ -20,6 +22,7 @@ mod batches;
 mod calibrations;
 mod checkpoint;
 mod columns;
+mod conflicts;
 mod error;
 mod export;
 mod guards;
@@ -27,12 +30,16 @@ mod import;
 mod list;
 pub mod migrate;
 pub mod open;
+mod outbox;
+mod pulled;
 mod recipes;
 mod record;
 mod records;
 mod rows;
 mod search;
 mod seed;
+mod site;
+mod sync_types;
 pub mod tx;
 mod types;
 
@@ -42,6 +49,8 @@ use rusqlite::Connection;
 
 pub use calibrations::{CalibrationSwitch, CalibrationVersion, scope_words};
 pub use error::{Result, StoreError};
+pub use site::{SITE_CODE_KEY, SYNC_URL_KEY};
+pub use sync_types::*;
 pub use types::*;
 
 /// An open batch log.

@@ -18,7 +18,7 @@ pub(crate) struct VersionIds {
     pub version_id: i64,
 }
 
-fn recipe_id(tx: &Transaction, name: &str) -> Result<i64> {
+pub(crate) fn recipe_id(tx: &Transaction, name: &str) -> Result<i64> {
     let found: Option<i64> = tx
         .prepare_cached("SELECT id FROM recipes WHERE name = ?1")?
         .query_row([name], |r| r.get(0))
@@ -93,6 +93,34 @@ fn insert_version(
         params![recipe_id, version, text, hash, time_text(&clock::now())],
     )?;
     Ok(tx.last_insert_rowid())
+}
+
+/// Adds version `v` of a recipe pulled from the hub as version `number` here, with
+/// the site that saved it (and its number there when that differs).
+pub(crate) fn insert_pulled_version(
+    tx: &Transaction,
+    v: &RecipeVersion,
+    number: u32,
+    site: &str,
+) -> Result<VersionIds> {
+    let recipe_id = recipe_id(tx, &v.recipe)?;
+    tx.execute(
+        "INSERT INTO recipe_versions (recipe_id, version, text, content_hash, created_at, site, origin_version)
+         VALUES (?1, ?2, ?3, ?4, ?5, ?6, ?7)",
+        params![
+            recipe_id,
+            number,
+            v.text,
+            v.content_hash,
+            time_text(&clock::now()),
+            site,
+            (number != v.version).then_some(v.version)
+        ],
+    )?;
+    Ok(VersionIds {
+        recipe_id,
+        version_id: tx.last_insert_rowid(),
+    })
 }
 
 /// Finds version `v` of a recipe as recorded elsewhere (an import), or adds it with

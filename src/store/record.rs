@@ -12,6 +12,19 @@ use crate::batch::{
 };
 use crate::model::time as times;
 
+/// `select` over the rows of `table` (a literal name) for batch `?1`, in list order:
+/// by place in the list (a pulled row's place where it was written; a row written
+/// here, its rank among the batch's rows), then by `time` (the column that says when
+/// it was written), then as stored. A log that never synchronised lists its rows as
+/// they were written; logs that did list every batch's rows alike.
+pub(crate) fn in_list_order(select: &str, table: &'static str, time: &'static str) -> String {
+    format!(
+        "{select} FROM {table} e WHERE batch_id = ?1 ORDER BY coalesce(position, \
+         (SELECT count(*) FROM {table} p WHERE p.batch_id = e.batch_id AND p.id <= e.id)), \
+         {time}, id"
+    )
+}
+
 impl Store {
     /// The whole record of one batch, amendments applied, or `None`.
     pub fn batch(&self, code: &str) -> Result<Option<Batch>> {
@@ -86,9 +99,11 @@ impl Store {
             })?
             .collect::<rusqlite::Result<_>>()?;
         let mut measurements = Vec::new();
-        let mut stmt = conn.prepare_cached(
-            "SELECT kind, value, taken_at, taken_by FROM measurements WHERE batch_id = ?1 ORDER BY id",
-        )?;
+        let mut stmt = conn.prepare_cached(&in_list_order(
+            "SELECT kind, value, taken_at, taken_by",
+            "measurements",
+            "taken_at",
+        ))?;
         let mut rows = stmt.query([id])?;
         while let Some(r) = rows.next()? {
             let kind_text: String = r.get(0)?;
@@ -106,9 +121,11 @@ impl Store {
         }
         batch.measurements = measurements;
         batch.notes = conn
-            .prepare_cached(
-                "SELECT text, written_at, written_by FROM batch_notes WHERE batch_id = ?1 ORDER BY id",
-            )?
+            .prepare_cached(&in_list_order(
+                "SELECT text, written_at, written_by",
+                "batch_notes",
+                "written_at",
+            ))?
             .query_map([id], |r| {
                 Ok(Note {
                     text: r.get(0)?,
@@ -118,9 +135,11 @@ impl Store {
             })?
             .collect::<rusqlite::Result<_>>()?;
         let mut amendments = Vec::new();
-        let mut stmt = conn.prepare_cached(
-            "SELECT amended_at, amended_by, reason, changes FROM amendments WHERE batch_id = ?1 ORDER BY id",
-        )?;
+        let mut stmt = conn.prepare_cached(&in_list_order(
+            "SELECT amended_at, amended_by, reason, changes",
+            "amendments",
+            "amended_at",
+        ))?;
         let mut rows = stmt.query([id])?;
         while let Some(r) = rows.next()? {
             let changes_text: String = r.get(3)?;

@@ -102,6 +102,7 @@ commands! {
     AddNote => "add-note", "Add a note to the open batch";
     Finalize => "finalize", "Finalise the open batch (it can then only be amended)";
     Amend => "amend", "Amend a finalised batch with a correcting note";
+    SyncNow => "sync-now", "Synchronise the batch log with the hub now (send and receive)";
     Toggle => "toggle", "Change the setting under the cursor";
     Confirm => "confirm", "Accept";
     Cancel => "cancel", "Back out without changing anything";
@@ -163,6 +164,15 @@ pub enum Action {
         /// What to tell the user.
         message: String,
     },
+    /// Where the log stands with the hub (read from the log, or after a sync).
+    SyncState(super::state::SyncView),
+    /// A sync finished: what it moved, and where the log now stands.
+    Synced {
+        /// What to tell the user.
+        message: String,
+        /// Where the log now stands.
+        state: super::state::SyncView,
+    },
     /// Something the loop did went wrong; the message says what and that data is safe.
     Failed(String),
     /// Something the loop did went right; the message says what.
@@ -209,6 +219,12 @@ pub enum Effect {
         /// The user's own solutes it contains.
         solutes: Vec<crate::model::Solute>,
     },
+    /// Read where the log stands with the hub.
+    LoadSyncState,
+    /// Synchronise with the hub now.
+    SyncNow,
+    /// Rename this log's site.
+    RenameSite(String),
     /// Fetch a page of the batch log.
     LoadBatches(super::state::BatchQuery),
     /// Fetch one batch's detail by code.

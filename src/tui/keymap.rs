@@ -229,6 +229,7 @@ pub const KEYMAP: &[Binding] = &[
         Command::StartBatch,
         Some("batch"),
     ),
+    bind(BATCHES, Key::ch('S'), Command::SyncNow, Some("sync")),
     // Ingredients.
     bind(SEARCHABLE, Key::ch('/'), Command::Search, Some("search")),
     bind(SEARCHABLE, Key::plain(K::Esc), Command::ClearFilter, None),

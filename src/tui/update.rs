@@ -72,6 +72,18 @@ pub fn update(state: &mut State, action: Action) -> Vec<Effect> {
             effects.push(Effect::LoadBatchDetail(code));
             effects
         }
+        Action::SyncState(view) => {
+            state.batches.sync = view;
+            Vec::new()
+        }
+        Action::Synced {
+            message,
+            state: view,
+        } => {
+            state.batches.sync = view;
+            state.tell(message);
+            batches::reload(state)
+        }
         Action::Failed(text) => {
             state.batches.loading = false;
             state.warn(text);
@@ -119,7 +131,9 @@ fn cycle(screen: Screen, step: usize) -> Screen {
 fn show(state: &mut State, screen: Screen) -> Vec<Effect> {
     state.screen = screen;
     if screen == Screen::Batches && state.batches.rows.is_empty() && !state.batches.loading {
-        return batches::reload(state);
+        let mut effects = batches::reload(state);
+        effects.push(Effect::LoadSyncState);
+        return effects;
     }
     Vec::new()
 }

@@ -80,9 +80,24 @@ fn a_batch_is_recorded_measured_finalized_and_amended() {
     assert_eq!(b["recipe"], "Harbour vanilla");
     chrono::DateTime::parse_from_rfc3339(b["made_at"].as_str().unwrap()).unwrap();
     let code = b["code"].as_str().unwrap().to_owned();
+    // B-YYYYMMDD-SITE-NNNN, with this log's random site code.
+    let site = run_ok(&db, &["site"]).trim().to_owned();
+    let day = &b["made_at"].as_str().unwrap()[..10].replace('-', "");
+    assert_eq!(code, format!("B-{day}-{site}-0001"));
     assert!(
-        code.starts_with("B-") && code.len() == "B-20261201-0001".len(),
-        "{code}"
+        site.len() == 4
+            && site
+                .chars()
+                .all(|c| c.is_ascii_uppercase() || c.is_ascii_digit()),
+        "{site}"
+    );
+    // Once a batch carries it, the site code is fixed.
+    let err = gelu(&db).args(["site", "NEWCODE"]).output().unwrap();
+    assert!(!err.status.success());
+    assert!(
+        String::from_utf8_lossy(&err.stderr).contains("fixed"),
+        "{}",
+        String::from_utf8_lossy(&err.stderr)
     );
 
     run_ok(

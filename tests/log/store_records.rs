@@ -57,9 +57,11 @@ fn template(store: &mut Store) -> gelu::batch::Batch {
         .unwrap()
 }
 
+/// A new log with the site code HBR, so that codes are known in advance.
 fn fresh() -> (tempfile::TempDir, Store) {
     let dir = tempfile::tempdir().unwrap();
-    let store = Store::open(&dir.path().join("log.db")).unwrap();
+    let mut store = Store::open(&dir.path().join("log.db")).unwrap();
+    assert_eq!(store.set_site_code("hbr").unwrap(), "HBR");
     (dir, store)
 }
 
@@ -69,8 +71,8 @@ fn a_new_batch_is_stored_whole_with_a_daily_code() {
     let new = planned("harbour-vanilla.toml", "5kg", 3, "S-2611-7", "new freezer");
     let first = store.new_batch(&new).unwrap();
     let second = store.new_batch(&new).unwrap();
-    assert_eq!(first.code, "B-20261103-0001");
-    assert_eq!(second.code, "B-20261103-0002");
+    assert_eq!(first.code, "B-20261103-HBR-0001");
+    assert_eq!(second.code, "B-20261103-HBR-0002");
     assert_eq!(first.status, Status::Draft);
     assert_eq!(first.size_g, 5000.0);
     let planned_total: f64 = first.lines.iter().map(|l| l.planned_g).sum();
@@ -272,7 +274,7 @@ fn the_list_filters_searches_and_pages_newest_first() {
         all.windows(2).all(|w| w[0].made_at >= w[1].made_at),
         "newest first"
     );
-    assert_eq!(all[0].code, "B-20261112-0001");
+    assert_eq!(all[0].code, "B-20261112-HBR-0001");
 
     let sorbet = BatchFilter {
         recipe: Some("Quay lemon sorbet".into()),
@@ -287,10 +289,10 @@ fn the_list_filters_searches_and_pages_newest_first() {
     assert_eq!(
         codes,
         [
-            "B-20261112-0001",
-            "B-20261109-0001",
-            "B-20261106-0001",
-            "B-20261103-0001"
+            "B-20261112-HBR-0001",
+            "B-20261109-HBR-0001",
+            "B-20261106-HBR-0001",
+            "B-20261103-HBR-0001"
         ]
     );
 
@@ -302,8 +304,8 @@ fn the_list_filters_searches_and_pages_newest_first() {
     assert_eq!(store.list_batches(&window).unwrap().len(), 2);
 
     let search = |text: &str| search(&store, text);
-    assert_eq!(search("ajar"), ["B-20261107-0001"]);
-    assert_eq!(search("SUC-05"), ["B-20261105-0001"]);
+    assert_eq!(search("ajar"), ["B-20261107-HBR-0001"]);
+    assert_eq!(search("SUC-05"), ["B-20261105-HBR-0001"]);
     assert_eq!(
         search("lemon").len(),
         4,
@@ -403,7 +405,7 @@ fn export_import_export_gives_identical_lines() {
     let again = other.import_jsonl(&mut first.as_bytes()).unwrap();
     assert_eq!((again.imported, again.skipped_existing), (0, 8));
     assert_eq!(export(&other), first);
-    let amended = other.batch("B-20261104-0001").unwrap().unwrap();
+    let amended = other.batch("B-20261104-HBR-0001").unwrap().unwrap();
     assert_eq!(amended.status, Status::Amended);
     assert_eq!(amended.lines[1].actual_g, Some(899.5));
 }
@@ -462,7 +464,7 @@ fn a_malformed_import_line_is_reported_and_nothing_of_it_written() {
         .collect();
     assert_eq!(
         codes,
-        ["B-20261103-0001"],
+        ["B-20261103-HBR-0001"],
         "nothing of a refused line is written"
     );
     assert!(other.check().unwrap().is_empty());

@@ -501,3 +501,30 @@ fn the_measurement_loop_runs_against_the_log() {
     let (s, _) = open(&db, None);
     assert!(s.own.ingredient("slipway-dextrose").is_some());
 }
+
+#[test]
+fn syncing_without_a_hub_says_how_to_set_one_and_the_site_can_be_renamed_before_a_batch() {
+    let dir = tempdir();
+    let db = dir.path().join("log.db");
+    let (mut s, mut services) = open(&db, None);
+    run(&mut s, &mut services, Command::ShowBatches);
+    assert!(!s.batches.sync.site.is_empty(), "the log has a site code");
+    assert!(!s.batches.sync.hub_set);
+    // (This test assumes GELU_SYNC_URL is not set where the tests run.)
+    run(&mut s, &mut services, Command::SyncNow);
+    assert!(!s.batches.sync.running, "the sync is over");
+    let said = s
+        .message
+        .as_ref()
+        .map(|m| m.text.clone())
+        .unwrap_or_default();
+    assert!(said.contains("No hub is set"), "{said}");
+    let mut queue = VecDeque::from([Action::Command(Command::ShowSettings)]);
+    drain(&mut s, &mut services, &mut queue);
+    let mut queue: VecDeque<Action> = services
+        .perform(gelu::tui::Effect::RenameSite("QAY".into()))
+        .into();
+    drain(&mut s, &mut services, &mut queue);
+    assert_eq!(s.settings.site_code, "QAY");
+    assert_eq!(s.batches.sync.site, "QAY");
+}

@@ -5,7 +5,7 @@
 
 use crate::common::{cmd, draw, liqueur_state, loaded_state, type_text};
 use gelu::batch::compare::{Calibrated, Comparison, PredictedFrom};
-use gelu::tui::state::{BatchDetailView, BatchPage, BatchRow, MeasurementRow, State};
+use gelu::tui::state::{BatchDetailView, BatchPage, BatchRow, MeasurementRow, State, SyncView};
 use gelu::tui::{Action, Command, update};
 use ratatui::Terminal;
 use ratatui::backend::TestBackend;
@@ -34,11 +34,22 @@ fn with_batches() -> State {
         Action::BatchesPage(BatchPage {
             query,
             rows: vec![
-                row("B-20261201-0003", "2026-12-01 15:20", false),
-                row("B-20261201-0002", "2026-12-01 09:05", true),
+                row("B-20261201-HBR-0003", "2026-12-01 15:20", false),
+                row("B-20261201-HBR-0002", "2026-12-01 09:05", true),
                 row("B-20261130-0001", "2026-11-30 16:40", true),
             ],
             more: false,
+        }),
+    );
+    update(
+        &mut s,
+        Action::SyncState(SyncView {
+            site: "HBR".into(),
+            hub_set: true,
+            last_sync: Some("2026-12-01T16:02:11.000Z".into()),
+            waiting: 2,
+            conflicts: 1,
+            running: false,
         }),
     );
     s
@@ -50,7 +61,7 @@ fn with_detail() -> State {
     update(
         &mut s,
         Action::BatchDetail(Box::new(BatchDetailView {
-            row: row("B-20261201-0002", "2026-12-01 09:05", true),
+            row: row("B-20261201-HBR-0002", "2026-12-01 09:05", true),
             lines: vec![
                 ("whole-milk".into(), 3720.0, "QM-0412".into()),
                 ("heavy-cream".into(), 960.0, "QM-0413".into()),

@@ -32,7 +32,7 @@ use crate::report::batch_text::{batch_text, summary_line};
 use crate::store::Store;
 
 /// `--by`, or the login name.
-fn who(by: &Option<String>) -> anyhow::Result<String> {
+pub(crate) fn who(by: &Option<String>) -> anyhow::Result<String> {
     if let Some(name) = by.as_deref().map(str::trim).filter(|n| !n.is_empty()) {
         return Ok(name.to_owned());
     }

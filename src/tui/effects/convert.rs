@@ -9,7 +9,7 @@ use crate::measure::{DRAW_FROZEN_FRACTION_SETTING, summarise};
 use crate::model::time::{DayEnd, parse_date_bound};
 use crate::model::{Ingredient, Solute};
 use crate::recipe_file::{own_item_definition, own_items_in};
-use crate::store::{CustomItem, Store};
+use crate::store::{CustomItem, SYNC_URL_KEY, Store};
 
 use super::super::state::{
     BatchDetailView, BatchRow, CompareRequest, CompareView, KindView, MeasurementRow, OwnLibrary,
@@ -49,6 +49,7 @@ pub fn settings_pairs(s: &Settings) -> Vec<(&'static str, String)> {
             s.draw_frozen_fraction.to_string(),
         ),
         (KEY_OPERATOR, s.operator.clone()),
+        (SYNC_URL_KEY, s.sync_url.clone()),
     ]
 }
 
@@ -90,6 +91,10 @@ pub fn load_settings(store: &Store) -> Settings {
     if let Ok(share) = store.draw_frozen_fraction() {
         s.draw_frozen_fraction = share;
     }
+    if let Some(v) = get(SYNC_URL_KEY) {
+        s.sync_url = v;
+    }
+    s.site_code = store.site_code().unwrap_or_default();
     s
 }
 

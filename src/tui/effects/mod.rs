@@ -4,6 +4,7 @@
 //! already stored is safe; nothing here ends the program.
 
 mod convert;
+mod hub;
 
 use std::path::{Path, PathBuf};
 
@@ -170,6 +171,9 @@ impl Services {
                 Vec::new()
             }
             Effect::LoadBatches(query) => vec![Action::BatchesPage(load_page(s, query)?)],
+            Effect::LoadSyncState => vec![Action::SyncState(hub::view(s)?)],
+            Effect::SyncNow => hub::sync_now(s)?,
+            Effect::RenameSite(code) => hub::rename_site(s, &code)?,
             Effect::LoadBatchDetail(code) => match s.batch(&code)? {
                 Some(batch) => {
                     let log = s.log_setting()?;

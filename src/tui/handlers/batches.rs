@@ -96,6 +96,12 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
         }
         Command::StartBatch => open_batch_form(state),
         Command::CompareBatches => return open_comparison(state),
+        Command::SyncNow if state.batches.sync.running => state.tell("A sync is already running."),
+        Command::SyncNow => {
+            state.batches.sync.running = true;
+            state.tell("Synchronising with the hub…");
+            return vec![Effect::SyncNow];
+        }
         _ => {}
     }
     Vec::new()

@@ -5,8 +5,11 @@ use super::super::action::{Command, Effect};
 use super::super::state::{PromptPurpose, SettingField, State};
 use super::common::move_cursor;
 use super::common::prompt;
+use crate::batch::shared::check_site_code;
 use crate::model::units::{parse_freezing_temp, parse_share};
 use crate::model::{MassUnit, TempUnit};
+use crate::sync::Target;
+use crate::sync::target::has_password;
 
 /// Handles a command on the settings screen.
 pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
@@ -77,6 +80,22 @@ pub fn accept(state: &mut State, field: SettingField, text: &str) -> Result<Vec<
                 return Err("keep the operator's name under 60 characters".into());
             }
             state.settings.operator = name.to_string();
+        }
+        SettingField::SiteCode => {
+            let code = check_site_code(text).map_err(|e| e.0)?;
+            return Ok(vec![Effect::RenameSite(code)]);
+        }
+        SettingField::SyncUrl => {
+            let url = text.trim();
+            if has_password(url) {
+                return Err(
+                    "keep the password out of the log: put it in ~/.pgpass or PGPASSWORD".into(),
+                );
+            }
+            if !url.is_empty() {
+                Target::parse(url).map_err(|e| e.to_string())?;
+            }
+            state.settings.sync_url = url.to_string();
         }
         SettingField::TempUnit | SettingField::MassUnit => {}
     }

@@ -143,6 +143,23 @@ pub struct BatchRequest {
     pub note: String,
 }
 
+/// Where this log stands with the hub, as the batch log shows it.
+#[derive(Debug, Clone, PartialEq, Default)]
+pub struct SyncView {
+    /// This log's site code.
+    pub site: String,
+    /// Whether a hub is set (the `sync_url` setting or GELU_SYNC_URL).
+    pub hub_set: bool,
+    /// When the last sync ended (RFC 3339), if ever.
+    pub last_sync: Option<String>,
+    /// Records waiting to be sent.
+    pub waiting: usize,
+    /// Conflicts waiting for a person.
+    pub conflicts: usize,
+    /// Whether a sync is running now.
+    pub running: bool,
+}
+
 /// The batch log screen.
 #[derive(Debug, Clone, Default)]
 pub struct BatchesState {
@@ -160,4 +177,6 @@ pub struct BatchesState {
     pub detail: Option<BatchDetailView>,
     /// The compare view, when open (or on its way: `loading`).
     pub compare: Option<CompareView>,
+    /// Where the log stands with the hub.
+    pub sync: SyncView,
 }

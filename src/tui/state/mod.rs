@@ -81,6 +81,10 @@ pub struct Settings {
     pub draw_frozen_fraction: f64,
     /// Who is working, written on new batches.
     pub operator: String,
+    /// This log's site code, carried by new batch codes (renamed through the store).
+    pub site_code: String,
+    /// The hub's address (`sync_url`), never with a password; empty when none.
+    pub sync_url: String,
 }
 
 impl Default for Settings {
@@ -93,6 +97,8 @@ impl Default for Settings {
             freezer_temp_c: DEFAULT_FREEZER_TEMP_C,
             draw_frozen_fraction: crate::measure::DEFAULT_DRAW_FROZEN_FRACTION,
             operator: String::new(),
+            site_code: String::new(),
+            sync_url: String::new(),
         }
     }
 }
@@ -191,6 +197,8 @@ impl Settings {
             }
             SettingField::DrawShare => trim_number(100.0 * self.draw_frozen_fraction),
             SettingField::Operator => self.operator.clone(),
+            SettingField::SiteCode => self.site_code.clone(),
+            SettingField::SyncUrl => self.sync_url.clone(),
         }
     }
 }
@@ -212,17 +220,23 @@ pub enum SettingField {
     DrawShare,
     /// Operator name.
     Operator,
+    /// This log's site code.
+    SiteCode,
+    /// The hub's address.
+    SyncUrl,
 }
 
 impl SettingField {
     /// Every setting, in screen order.
-    pub const ALL: [SettingField; 7] = [
+    pub const ALL: [SettingField; 9] = [
         SettingField::TempUnit,
         SettingField::MassUnit,
         SettingField::ServingTarget,
         SettingField::CabinetTemp,
         SettingField::FreezerTemp,
         SettingField::DrawShare,
+        SettingField::SiteCode,
+        SettingField::SyncUrl,
         SettingField::Operator,
     ];
 
@@ -236,6 +250,8 @@ impl SettingField {
             SettingField::FreezerTemp => "Freezer temperature",
             SettingField::DrawShare => "Water frozen at draw (predicted draw)",
             SettingField::Operator => "Operator",
+            SettingField::SiteCode => "Site code (in new batch codes)",
+            SettingField::SyncUrl => "Sync server (hub URL, no password)",
         }
     }
 }

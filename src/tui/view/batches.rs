@@ -143,6 +143,34 @@ fn filters(state: &State) -> String {
     }
 }
 
+/// Where the log stands with the hub, in a few words (short enough for 80 columns
+/// beside the title).
+fn hub_state(state: &State) -> String {
+    let s = &state.batches.sync;
+    let mut parts = Vec::new();
+    if s.running {
+        parts.push("syncing…".to_string());
+    } else if let Some(at) = &s.last_sync {
+        parts.push(format!(
+            "synced {}",
+            at.get(5..16).unwrap_or(at).replace('T', " ")
+        ));
+    } else if s.hub_set {
+        parts.push("never synced".into());
+    } else {
+        parts.push("no hub".into());
+    }
+    if s.waiting > 0 {
+        parts.push(format!("{} waiting", s.waiting));
+    }
+    match s.conflicts {
+        0 => {}
+        1 => parts.push("1 conflict".into()),
+        n => parts.push(format!("{n} conflicts")),
+    }
+    format!(" {}: {} ", s.site, parts.join(", "))
+}
+
 fn render_list(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
     let b = &state.batches;
     let unit = state.settings.mass_unit;
@@ -180,11 +208,11 @@ fn render_list(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
     let table = Table::new(
         rows,
         [
-            Constraint::Length(18),
+            Constraint::Length(22),
             Constraint::Length(16),
-            Constraint::Min(14),
-            Constraint::Length(11),
+            Constraint::Min(10),
             Constraint::Length(10),
+            Constraint::Length(8),
             Constraint::Length(5),
         ],
     )
@@ -203,6 +231,7 @@ fn render_list(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
     .block(
         Block::bordered()
             .title(Span::styled(" Batch log, newest first ", theme.title()))
+            .title(Line::from(hub_state(state)).right_aligned())
             .title_bottom(format!(" {}; {count} ", filters(state))),
     );
     let mut ts = TableState::default();

@@ -28,7 +28,11 @@ pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
                     value.push(' ');
                     value.push_str(t);
                 }
-                SettingField::Operator if value.is_empty() => value = "(not set)".into(),
+                SettingField::Operator | SettingField::SiteCode | SettingField::SyncUrl
+                    if value.is_empty() =>
+                {
+                    value = "(not set)".into()
+                }
                 _ => {}
             }
             Row::new(vec![format!("{mark}{}", field.label()), value])
