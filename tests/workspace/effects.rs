@@ -528,3 +528,30 @@ fn syncing_without_a_hub_says_how_to_set_one_and_the_site_can_be_renamed_before_
     assert_eq!(s.settings.site_code, "QAY");
     assert_eq!(s.batches.sync.site, "QAY");
 }
+
+#[test]
+fn settings_stored_by_earlier_releases_keep_their_meaning() {
+    // The keys a log already holds are a contract with the files users have: the
+    // serving share is stored under `workspace.serving_target` since the first release.
+    let dir = tempdir();
+    let db = dir.path().join("log.db");
+    {
+        let mut store = match gelu::store::Store::open(&db) {
+            Ok(s) => s,
+            Err(e) => panic!("{e}"),
+        };
+        for (key, value) in [
+            ("workspace.serving_target", "0.6"),
+            ("workspace.cabinet_temp_c", "-11.5"),
+            ("workspace.temp_unit", "f"),
+        ] {
+            if let Err(e) = store.set_setting(key, value) {
+                panic!("{e}");
+            }
+        }
+    }
+    let (s, _) = open(&db, None);
+    assert_eq!(s.settings.serving_frozen_fraction, 0.6);
+    assert_eq!(s.settings.cabinet_temp_c, -11.5);
+    assert_eq!(s.settings.temp_unit, TempUnit::Fahrenheit);
+}

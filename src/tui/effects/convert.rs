@@ -19,7 +19,7 @@ use crate::model::{MassUnit, TempUnit};
 
 const KEY_TEMP: &str = "workspace.temp_unit";
 const KEY_MASS: &str = "workspace.mass_unit";
-const KEY_SERVING: &str = "workspace.serving_frozen_fraction";
+const KEY_SERVING: &str = "workspace.serving_target";
 const KEY_CABINET: &str = "workspace.cabinet_temp_c";
 const KEY_FREEZER: &str = "workspace.freezer_temp_c";
 const KEY_OPERATOR: &str = "workspace.operator";
