@@ -13,7 +13,9 @@
 
 mod edit;
 mod read;
+mod read_balance;
 mod write;
+mod write_balance;
 
 use std::fmt;
 use std::path::PathBuf;

@@ -1,8 +1,11 @@
 //! Writing a recipe as a fresh TOML file in the format [`super::parse_recipe`]
-//! reads (for a new file, or when a file's own layout cannot be kept).
+//! reads (for a new file, or when a file's own layout cannot be kept), what
+//! it asks balancing included.
 
 use crate::model::{Amount, Recipe};
 use crate::thermo::binary::WaterModel;
+
+use super::write_balance::{balance_tables, own_price_line, rule_of_line, rule_pairs};
 
 /// Writes a recipe as TOML in the format [`parse_recipe`] reads. Amounts by
 /// mass are written in g, by volume in mL.
@@ -67,8 +70,11 @@ pub fn recipe_to_toml(recipe: &Recipe) -> String {
             let a: Vec<String> = i.allergens.iter().map(|a| q(a)).collect();
             let _ = writeln!(out, "allergens = [{}]", a.join(", "));
         }
+        if let Some(price) = own_price_line(recipe, &i.id) {
+            out.push_str(&price);
+        }
     }
-    for l in &recipe.lines {
+    for (k, l) in recipe.lines.iter().enumerate() {
         let (key, v) = match l.amount {
             Amount::Grams(g) => ("g", g),
             Amount::Millilitres(ml) => ("ml", ml),
@@ -78,11 +84,16 @@ pub fn recipe_to_toml(recipe: &Recipe) -> String {
             "\n[[line]]\ningredient = {}\n{key} = {v:?}\n",
             q(&l.ingredient)
         );
+        for (key, value) in rule_of_line(recipe, k).map(rule_pairs).unwrap_or_default() {
+            let _ = writeln!(out, "{key} = {value}");
+        }
     }
+    out.push_str(&balance_tables(recipe));
     out
 }
 
-fn toml_key(k: &str) -> String {
+/// A key as TOML: bare when it can be, quoted otherwise.
+pub(super) fn toml_key(k: &str) -> String {
     if k.bytes()
         .all(|b| b.is_ascii_alphanumeric() || b == b'-' || b == b'_')
         && !k.is_empty()
