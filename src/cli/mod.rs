@@ -2,6 +2,7 @@
 //! subcommands, which resolve them into typed options for the library.
 //! Only this module and `main` decide exit codes.
 
+mod balance;
 mod batch;
 mod db;
 mod report;
@@ -28,6 +29,8 @@ pub struct Cli {
 pub enum Command {
     /// Analyse recipe files: freezing point, frozen share, composition, warnings.
     Report(report::ReportArgs),
+    /// Balance recipe files: new amounts that reach their targets.
+    Balance(balance::BalanceArgs),
     /// The batch log: record, list, show, measure, finalize, amend, export, import.
     Batch(batch::BatchArgs),
     /// The batch-log database: path, check, backup.
@@ -48,6 +51,7 @@ pub fn run() -> ExitCode {
     let cli = Cli::parse();
     let outcome = match cli.command {
         Some(Command::Report(args)) => report::run(&args),
+        Some(Command::Balance(args)) => balance::run(&args),
         Some(Command::Batch(args)) => batch::run(&args, cli.db.as_deref()),
         Some(Command::Db(args)) => db::run(&args, cli.db.as_deref()),
         Some(Command::Edit { file }) => workspace(cli.db, Some(file)),

@@ -173,6 +173,19 @@ impl Figure {
         }
     }
 
+    /// A value of this figure as people read it, with its unit: `7.05 %`,
+    /// `-2.61 °C`, `0.683`, `1000.0 g`, `20.00 % vol`, `250.0 g/L`.
+    pub fn value_text(&self, v: f64) -> String {
+        let number = match self {
+            Figure::MassG | Figure::VolumeMl | Figure::SugarGPerL | Figure::Sweetness => {
+                format!("{v:.1}")
+            }
+            Figure::FrozenAt { .. } => format!("{v:.3}"),
+            _ => format!("{v:.2}"),
+        };
+        with_unit(&number, self.unit())
+    }
+
     /// The values a bound on this figure may take (low, high), in its unit;
     /// `high` is infinite for figures with no top (mass, volume, sweetness, g/L).
     pub fn valid_range(&self) -> (f64, f64) {

@@ -10,7 +10,7 @@ use std::path::Path;
 use toml_edit::{ArrayOfTables, DocumentMut, Item, Table, Value};
 
 use crate::model::{Amount, Line, Recipe};
-use crate::recipe_file::{parse_recipe, recipe_to_toml};
+use crate::recipe_file::{RecipeFileError, parse_recipe, recipe_to_toml};
 
 use super::write_balance::{RULE_KEYS, balance_tables, is_own, rule_of_line, rule_pairs};
 
@@ -49,8 +49,36 @@ pub fn rewrite(path: &Path, original: Option<&str>, recipe: &Recipe) -> Rewritte
     }
 }
 
-/// Whether two recipes agree in everything saved, amounts to a microgram
-/// (targets in any order: a file lists them in its own).
+/// Saves `recipe` to `path` as [`rewrite`] gives it, atomically: the text goes
+/// to a file beside it first, which then replaces the old one, so a failure
+/// leaves the old file as it was.
+pub fn save_recipe(
+    path: &Path,
+    original: Option<&str>,
+    recipe: &Recipe,
+) -> Result<Rewritten, RecipeFileError> {
+    let out = rewrite(path, original, recipe);
+    let fail = |message: String| RecipeFileError {
+        path: path.to_path_buf(),
+        line: 0,
+        column: 0,
+        message,
+    };
+    let tmp = path.with_extension("toml.saving");
+    std::fs::write(&tmp, &out.text).map_err(|e| {
+        fail(format!(
+            "could not write {}: {e}; the file is unchanged",
+            tmp.display()
+        ))
+    })?;
+    std::fs::rename(&tmp, path)
+        .map_err(|e| fail(format!("could not replace the file: {e}; it is unchanged")))?;
+    Ok(out)
+}
+
+/// Whether two recipes agree in everything saved, amounts to a milligram (or
+/// a microlitre) plus a millionth, as saved back (targets in any order: a file
+/// lists them in its own).
 fn same_recipe(a: &Recipe, b: &Recipe) -> bool {
     let sorted = |r: &Recipe| {
         let mut q = r.balance.clone();
@@ -59,7 +87,7 @@ fn same_recipe(a: &Recipe, b: &Recipe) -> bool {
     };
     let close = |x: &Amount, y: &Amount| match (x, y) {
         (Amount::Grams(p), Amount::Grams(q)) | (Amount::Millilitres(p), Amount::Millilitres(q)) => {
-            (p - q).abs() <= 1e-6 * p.abs().max(1.0)
+            (p - q).abs() <= 1e-3 + 1e-6 * p.abs()
         }
         _ => false,
     };

@@ -20,7 +20,7 @@ mod write_balance;
 use std::fmt;
 use std::path::PathBuf;
 
-pub use edit::{Rewritten, rewrite};
+pub use edit::{Rewritten, rewrite, save_recipe};
 pub use read::{parse_recipe, parse_recipe_with, read_recipe};
 pub use write::recipe_to_toml;
 

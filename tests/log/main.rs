@@ -7,6 +7,7 @@ mod store_common;
 
 mod batch_cli;
 mod batch_processes;
+mod cli_balance;
 mod cli_report;
 mod store_import;
 mod store_migrate;

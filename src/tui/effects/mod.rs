@@ -259,16 +259,8 @@ fn loaded_file(path: &Path, recipe: Recipe, text: String) -> Action {
 }
 
 fn save_file(path: &Path, original: Option<&str>, recipe: Recipe) -> anyhow::Result<Action> {
-    let out = crate::recipe_file::rewrite(path, original, &recipe);
-    let tmp = path.with_extension("toml.saving");
-    std::fs::write(&tmp, &out.text)
-        .with_context(|| format!("could not write {}; the file is unchanged", tmp.display()))?;
-    std::fs::rename(&tmp, path).with_context(|| {
-        format!(
-            "could not replace {}; the file is unchanged",
-            path.display()
-        )
-    })?;
+    let out = crate::recipe_file::save_recipe(path, original, &recipe)
+        .map_err(|e| anyhow::anyhow!("{e}"))?;
     let how = if out.kept_layout {
         "comments and layout kept"
     } else {
