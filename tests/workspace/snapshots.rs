@@ -115,6 +115,22 @@ fn scenes() -> Vec<(&'static str, State)> {
     imperial.reanalyse();
     let mut warnings = loaded_state();
     cmd(&mut warnings, Command::ShowWarnings);
+    let mut balance = loaded_state();
+    cmd(&mut balance, Command::OpenBalance);
+    cmd(&mut balance, Command::Down);
+    let mut balance_liqueur = liqueur_state();
+    cmd(&mut balance_liqueur, Command::OpenBalance);
+    cmd(&mut balance_liqueur, Command::Last);
+    cmd(&mut balance_liqueur, Command::Up);
+    cmd(&mut balance_liqueur, Command::EditBalanceRow);
+    cmd(&mut balance_liqueur, Command::ClearField);
+    type_text(&mut balance_liqueur, "25");
+    cmd(&mut balance_liqueur, Command::Confirm);
+    let mut balance_conflict = loaded_state();
+    cmd(&mut balance_conflict, Command::OpenBalance);
+    cmd(&mut balance_conflict, Command::AddTarget);
+    type_text(&mut balance_conflict, "fat_pct=40..45");
+    cmd(&mut balance_conflict, Command::Confirm);
     vec![
         ("recipe", recipe),
         ("recipe_empty", empty),
@@ -131,6 +147,9 @@ fn scenes() -> Vec<(&'static str, State)> {
         ("warnings", warnings),
         ("recipe_fahrenheit_ounces", imperial),
         ("liqueur", liqueur_state()),
+        ("balance", balance),
+        ("balance_liqueur", balance_liqueur),
+        ("balance_conflict", balance_conflict),
     ]
 }
 

@@ -14,6 +14,8 @@ pub enum Context {
     Batches,
     /// Looking at one batch.
     BatchDetail,
+    /// The balance panel on the recipe screen.
+    Balance,
     /// Browsing the settings.
     Settings,
     /// Typing into a one-line prompt.
@@ -30,12 +32,13 @@ pub enum Context {
 
 impl Context {
     /// Every context.
-    pub const ALL: [Context; 11] = [
+    pub const ALL: [Context; 12] = [
         Context::Global,
         Context::Recipe,
         Context::Ingredients,
         Context::Batches,
         Context::BatchDetail,
+        Context::Balance,
         Context::Settings,
         Context::Prompt,
         Context::Picker,
@@ -69,6 +72,7 @@ impl Context {
             Context::Ingredients => "Ingredients",
             Context::Batches => "Batch log",
             Context::BatchDetail => "One batch",
+            Context::Balance => "Balancing the recipe",
             Context::Settings => "Settings",
             Context::Prompt => "Typing a value",
             Context::Picker => "Picking from a list",

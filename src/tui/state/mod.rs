@@ -1,6 +1,7 @@
 //! The whole state of the workspace: one struct the loop owns, which `update`
 //! changes and `view` draws. Nothing here does I/O.
 
+use std::collections::BTreeMap;
 use std::path::PathBuf;
 
 use crate::analysis::{
@@ -11,11 +12,13 @@ use crate::catalog::Catalog;
 use crate::model::units::trim_number;
 use crate::model::{Ingredient, MassUnit, Recipe, Solute, TempUnit};
 
+mod balance;
 mod batches;
 mod context;
 mod overlay;
 mod search;
 
+pub use balance::BalancePanel;
 pub use batches::*;
 pub use context::Context;
 pub use overlay::*;
@@ -79,6 +82,8 @@ pub struct Settings {
     pub freezer_temp_c: f64,
     /// Who is working, written on new batches.
     pub operator: String,
+    /// Prices per kg by ingredient id, for least cost (any currency).
+    pub prices_per_kg: BTreeMap<String, f64>,
 }
 
 impl Default for Settings {
@@ -90,6 +95,7 @@ impl Default for Settings {
             cabinet_temp_c: DEFAULT_CABINET_TEMP_C,
             freezer_temp_c: DEFAULT_FREEZER_TEMP_C,
             operator: String::new(),
+            prices_per_kg: BTreeMap::new(),
         }
     }
 }
@@ -135,6 +141,8 @@ pub struct RecipeState {
     pub redo: Vec<Recipe>,
     /// The analysis of `recipe`, or why there is none.
     pub analysis: Result<Analysis, String>,
+    /// The balance panel, when it is open.
+    pub balance: Option<BalancePanel>,
 }
 
 impl RecipeState {
@@ -329,6 +337,7 @@ impl State {
                 undo: Vec::new(),
                 redo: Vec::new(),
                 analysis: Err(String::new()),
+                balance: None,
             },
             ingredients: IngredientsState::default(),
             batches: BatchesState {
@@ -359,6 +368,9 @@ impl State {
             Some(Overlay::Confirm(_)) => Context::Confirm,
             None if self.screen == Screen::Batches && self.batches.detail.is_some() => {
                 Context::BatchDetail
+            }
+            None if self.screen == Screen::Recipe && self.recipe.balance.is_some() => {
+                Context::Balance
             }
             None => self.screen.context(),
         }
