@@ -49,7 +49,7 @@ pub fn balance_text(before: &Recipe, b: &Balance) -> String {
     lines_table(&mut o, before, b);
     let _ = writeln!(o);
     targets_table(&mut o, b);
-    cost_lines(&mut o, b);
+    cost_lines(&mut o, before, b);
     for (k, c) in b.conflicts.iter().enumerate() {
         let _ = writeln!(o);
         let _ = writeln!(
@@ -170,19 +170,29 @@ fn targets_table(o: &mut String, b: &Balance) {
     }
 }
 
-fn cost_lines(o: &mut String, b: &Balance) {
-    match (b.cost, b.cost_per_kg) {
-        (Some(cost), Some(per_kg)) => {
-            let _ = writeln!(
-                o,
-                "\nCost of the batch {cost:.2}, {per_kg:.2} per kg (from the prices given)"
-            );
-        }
-        _ if b.objective == Objective::Cost => {}
-        _ => {
-            let _ = writeln!(o, "\nCost: not every line has a price");
+fn cost_lines(o: &mut String, before: &Recipe, b: &Balance) {
+    if let (Some(cost), Some(per_kg)) = (b.cost, b.cost_per_kg) {
+        let _ = writeln!(
+            o,
+            "\nCost of the batch {cost:.2}, {per_kg:.2} per kg (from the prices given)"
+        );
+        return;
+    }
+    let prices = &before.balance.prices_per_kg;
+    if prices.is_empty() {
+        return;
+    }
+    let mut missing: Vec<&str> = Vec::new();
+    for l in &b.lines {
+        if !prices.contains_key(&l.ingredient) && !missing.contains(&l.ingredient.as_str()) {
+            missing.push(&l.ingredient);
         }
     }
+    let _ = writeln!(
+        o,
+        "\nCost: no price per kg for {} (give one in the file's [prices])",
+        missing.join(", ")
+    );
 }
 
 /// The public JSON object of one answer: `name, status, objective, cost,
