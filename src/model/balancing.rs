@@ -578,12 +578,6 @@ impl Request {
         }
     }
 
-    /// Whether it asks nothing at all (a recipe without a `[balance]` table,
-    /// rules or prices).
-    pub fn is_empty(&self) -> bool {
-        *self == Request::default()
-    }
-
     /// Adds `target`, replacing one on the same figure; a mass or volume
     /// replaces the other (a batch has one size).
     pub fn set_target(&mut self, target: Target) {
