@@ -6,13 +6,15 @@
 //! [`analysis::Mix`] -> [`analysis::Analysis`] -> view or report.
 //!
 //! The pure core (no files, no clock, no terminal, no SQL; deterministic):
-//! - [`model`]: plain data (solutes, ingredients, recipes, amounts) and the one
-//!   reader and writer of units, shares and times as people type them.
+//! - [`model`]: plain data (solutes, ingredients, recipes, amounts, what balancing
+//!   is asked) and the one reader and writer of units, shares and times as people
+//!   type them.
 //! - [`thermo`]: physics (ice activity, binary water-activity models, the ZSR
 //!   freezing curve, ethanol-water tables).
 //! - [`catalog`]: the built-in solutes and ingredients, embedded at build time.
 //! - [`analysis`]: recipe -> every figure the user sees, with warnings and cautions.
-//! - [`report`]: an analysis -> text (with a character chart) or JSON.
+//! - [`report`]: an analysis (or a balancing answer) -> text (with a character
+//!   chart) or JSON.
 //! - [`batch`]: the batch domain: records, planning, amendments, measured against
 //!   predicted, JSON and CSV forms.
 //! - [`balance`]: recipe + targets + line rules + objective -> new amounts.

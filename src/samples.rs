@@ -36,6 +36,10 @@ pub const SAMPLE_RECIPES: &[(&str, &str)] = &[
         include_str!("../sample-recipes/smoked-butter-sea-salt.toml"),
     ),
     (
+        "sour-cherry-liqueur.toml",
+        include_str!("../sample-recipes/sour-cherry-liqueur.toml"),
+    ),
+    (
         "strawberry-liqueur.toml",
         include_str!("../sample-recipes/strawberry-liqueur.toml"),
     ),
@@ -43,7 +47,7 @@ pub const SAMPLE_RECIPES: &[(&str, &str)] = &[
 
 /// The recipe name inside each file of [`SAMPLE_RECIPES`], in the same order (a
 /// new batch log saves each sample under its name; a test checks they agree).
-pub const SAMPLE_RECIPE_NAMES: [&str; 9] = [
+pub const SAMPLE_RECIPE_NAMES: [&str; 10] = [
     "Gullrock cream liqueur",
     "Dark spirit custard",
     "Promenade frozen yogurt",
@@ -52,6 +56,7 @@ pub const SAMPLE_RECIPE_NAMES: [&str; 9] = [
     "Mango sherbet",
     "Pier milk gelato",
     "Smoked butter and sea salt",
+    "Gullrock sour cherry liqueur",
     "Gullrock strawberry liqueur",
 ];
 

@@ -11,7 +11,7 @@ use super::BalanceError;
 use super::engine::Problem;
 use super::result::{LineResult, TargetResult};
 use super::rows::{RuleKind, Soft};
-use super::targets::Figure;
+use crate::model::balancing::Figure;
 
 /// The checked answer.
 pub(crate) struct Answer {
@@ -42,7 +42,6 @@ pub(crate) fn answer(
     problem: &Problem,
     recipe: &Recipe,
     catalog: &Catalog,
-    serving_frozen_fraction: Option<f64>,
     x_g: &[f64],
 ) -> Result<Answer, BalanceError> {
     let mut out = recipe.clone();
@@ -79,7 +78,6 @@ pub(crate) fn answer(
     plain.solutes.clear();
     plain.ingredients.clear();
     let options = Options {
-        serving_frozen_fraction,
         at_temps_c: problem
             .targets
             .iter()

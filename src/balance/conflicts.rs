@@ -15,7 +15,8 @@ use super::BalanceError;
 use super::engine::Problem;
 use super::result::Conflict;
 use super::rows::{Constraint, Lin, RuleKind, Side, Soft};
-use super::targets::{short_number, with_unit};
+use crate::model::balancing::with_unit;
+use crate::model::units::trim_number;
 
 /// Most conflicting sets reported.
 pub(crate) const MAX_CONFLICTS: usize = 4;
@@ -199,7 +200,7 @@ fn advice(problem: &Problem, member: usize, found: Option<f64>) -> String {
             let unit = figure.unit();
             let label = figure.label();
             let new = with_unit(&round_away(v, c.bound, figure.decimals()), unit);
-            let asked = with_unit(&short_number(c.bound), unit);
+            let asked = with_unit(&trim_number(c.bound), unit);
             match side {
                 Side::Low => {
                     format!("lower the minimum for {label} to {new} (asked at least {asked})")
@@ -214,7 +215,7 @@ fn advice(problem: &Problem, member: usize, found: Option<f64>) -> String {
             let id = &problem.model.lines[line].ingredient;
             let g = |x: f64| format!("{} g", round_away(x, c.bound, 0));
             let pct = |x: f64| format!("{} %", round_away(x, c.bound, 1));
-            let now = short_number(c.bound);
+            let now = trim_number(c.bound);
             match kind {
                 RuleKind::Fixed => {
                     format!("let {id} change from its fixed {now} g to {}", g(v))

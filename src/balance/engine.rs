@@ -4,10 +4,10 @@
 
 use super::BalanceError;
 use super::model::Model;
-use super::request::{Objective, Request};
 use super::rows::{Constraint, Lin, Row, RowBuilder, RuleKind, Sense, Side, Soft};
 use super::solve::{Goal, Outcome, Program, ProgramRow, Solution, solve};
-use super::targets::{Figure, Target};
+use crate::model::balancing::{Figure, Target};
+use crate::model::balancing::{Objective, Request};
 
 /// Most repeats of the programme while the volume's tangent settles.
 const MAX_ROUNDS: usize = 30;

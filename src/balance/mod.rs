@@ -70,12 +70,12 @@ use crate::analysis::AnalysisError;
 use crate::catalog::{Catalog, CatalogError, suggest_text};
 use crate::model::{Amount, Line, Recipe};
 
-pub use request::{LineRule, Objective, Request};
-pub use result::{Balance, Conflict, LineResult, Status, TargetResult};
-pub use targets::{
-    COLDEST_C, FROZEN_PREFIX, Figure, SOLUTE_PREFIX, Target, TargetError, Tolerance, parse_target,
-    valid_names,
+pub use crate::model::balancing::{
+    COLDEST_C, FROZEN_PREFIX, Figure, LineRule, Objective, Request, SOLUTE_PREFIX, Target,
+    TargetError, parse_target, valid_names,
 };
+pub use result::{Balance, Conflict, LineResult, Status, TargetResult};
+pub use targets::Tolerance;
 
 use answer::answer;
 use engine::{Elastic, Problem};
@@ -208,7 +208,7 @@ fn run(recipe: &Recipe, catalog: &Catalog, request: &Request) -> Result<Balance,
     let mut plain = recipe.clone();
     plain.solutes.clear();
     plain.ingredients.clear();
-    let model = Model::new(&plain, catalog, request.serving_frozen_fraction)?;
+    let model = Model::new(&plain, catalog)?;
     let size = request.targets.iter().find_map(|t| match t.figure {
         Figure::MassG | Figure::VolumeMl => t.high.or(t.low),
         _ => None,
@@ -222,14 +222,13 @@ fn run(recipe: &Recipe, catalog: &Catalog, request: &Request) -> Result<Balance,
         return Err(BalanceError::NoMass);
     }
     let problem = Problem::new(&model, request, mass_ref_g)?;
-    let serving = request.serving_frozen_fraction;
     let all = problem.all();
     let finish = |ans: answer::Answer, status, solved: Option<&engine::Solved>, conflicts| {
         build(&problem, request, recipe, ans, status, solved, conflicts)
     };
 
     if let Some(solved) = problem.solve(&all, Elastic::None)? {
-        let ans = answer(&problem, recipe, catalog, serving, &solved.solution.x_g)?;
+        let ans = answer(&problem, recipe, catalog, &solved.solution.x_g)?;
         if ans.all_met() {
             return Ok(finish(ans, Status::Balanced, Some(&solved), Vec::new()));
         }
@@ -246,10 +245,10 @@ fn run(recipe: &Recipe, catalog: &Catalog, request: &Request) -> Result<Balance,
         let lin = problem.tangent(&problem.start_g);
         let conflicts = conflicts::explain(&problem, &lin, &problem.start_g, &rules)?;
         let before: Vec<f64> = model.lines.iter().map(|l| l.before_g).collect();
-        let ans = answer(&problem, recipe, catalog, serving, &before)?;
+        let ans = answer(&problem, recipe, catalog, &before)?;
         return Ok(finish(ans, Status::Infeasible, None, conflicts));
     };
-    let ans = answer(&problem, recipe, catalog, serving, &near.solution.x_g)?;
+    let ans = answer(&problem, recipe, catalog, &near.solution.x_g)?;
     if ans.all_met() {
         return Ok(finish(ans, Status::Balanced, Some(&near), Vec::new()));
     }

@@ -14,7 +14,7 @@ use crate::catalog::Catalog;
 use crate::model::{Amount, Line, Recipe};
 use crate::thermo::zsr::Serum;
 
-use super::targets::Figure;
+use crate::model::balancing::Figure;
 
 /// One line: its ingredient and what one gram of it brings.
 pub(crate) struct LineModel<'c> {
@@ -61,12 +61,9 @@ fn one_line(id: &str, g: f64) -> Recipe {
 }
 
 impl<'c> Model<'c> {
-    /// Builds the model of `recipe` (whose own items are already in `catalog`).
-    pub fn new(
-        recipe: &Recipe,
-        catalog: &'c Catalog,
-        serving_frozen_fraction: Option<f64>,
-    ) -> Result<Model<'c>, AnalysisError> {
+    /// Builds the model of `recipe` (whose own items are already in `catalog`);
+    /// the serving temperature is where the recipe's own serving share is frozen.
+    pub fn new(recipe: &Recipe, catalog: &'c Catalog) -> Result<Model<'c>, AnalysisError> {
         let mut lines = Vec::with_capacity(recipe.lines.len());
         for (index, line) in recipe.lines.iter().enumerate() {
             let Some(ing) = catalog.ingredient(&line.ingredient) else {
@@ -109,14 +106,10 @@ impl<'c> Model<'c> {
             line.amount = Amount::Grams(1.0);
         }
         // The serving share exactly as the analysis picks it.
-        let options = Options {
-            serving_frozen_fraction,
-            ..Options::default()
-        };
         let serving = if all.lines.is_empty() {
             crate::analysis::DEFAULT_SERVING_FROZEN_FRACTION
         } else {
-            analyze(&all, catalog, &options)?.serving_frozen_fraction
+            analyze(&all, catalog, &Options::default())?.serving_frozen_fraction
         };
         let template = if all.lines.is_empty() {
             Mix::default()
@@ -270,7 +263,7 @@ mod tests {
             ..Recipe::default()
         };
         let catalog = Catalog::builtin();
-        let model = Model::new(&recipe, catalog, None).unwrap();
+        let model = Model::new(&recipe, catalog).unwrap();
         let x: Vec<f64> = model.lines.iter().map(|l| l.before_g).collect();
         let a = analyze(&recipe, catalog, &Options::default()).unwrap();
         let mass: f64 = x.iter().sum();

@@ -23,7 +23,7 @@
 use crate::thermo::ethanol::ETHANOL_DENSITY_20C_KG_M3;
 
 use super::model::Model;
-use super::targets::{Figure, Target};
+use crate::model::balancing::{Figure, Target};
 
 /// How a row compares with zero.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -299,7 +299,7 @@ mod tests {
     /// g(x, θ) changes sign exactly where the full analysis puts the figure.
     fn crosses_at(figure: Figure, value: f64, step: f64) {
         let recipe = gelato();
-        let model = Model::new(&recipe, Catalog::builtin(), None).unwrap();
+        let model = Model::new(&recipe, Catalog::builtin()).unwrap();
         let x: Vec<f64> = model.lines.iter().map(|l| l.before_g).collect();
         let targets = vec![Target::value(figure, value)];
         let (v, grad) = model.volume_evaluator().volume_and_gradient(&x);
@@ -364,7 +364,7 @@ mod tests {
     #[test]
     fn a_high_temperature_bound_at_zero_always_holds() {
         let recipe = gelato();
-        let model = Model::new(&recipe, Catalog::builtin(), None).unwrap();
+        let model = Model::new(&recipe, Catalog::builtin()).unwrap();
         let targets = vec![Target::at_most(Figure::FreezingPointC, 0.0)];
         let lin = Lin::default();
         let b = RowBuilder {

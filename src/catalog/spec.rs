@@ -113,6 +113,10 @@ pub struct IngredientTable {
     /// Where the numbers come from.
     #[serde(default)]
     pub source: Option<String>,
+    /// Price per kg (recipe files only: an own ingredient's price for least
+    /// cost; the catalog refuses it).
+    #[serde(default)]
+    pub price_per_kg: Option<Spanned<f64>>,
 }
 
 impl IngredientTable {
@@ -244,11 +248,17 @@ pub fn parse_catalog(text: &str) -> Result<(Vec<Solute>, Vec<Ingredient>), Catal
         .ingredient
         .iter()
         .map(|i| {
-            i.to_ingredient("")
-                .map_err(|(_, why)| CatalogFileError::Entry {
-                    id: i.id.get_ref().clone(),
-                    why,
-                })
+            let entry = |why: String| CatalogFileError::Entry {
+                id: i.id.get_ref().clone(),
+                why,
+            };
+            if i.price_per_kg.is_some() {
+                return Err(entry(
+                    "the catalog holds no prices: give them in a recipe file or the batch log"
+                        .into(),
+                ));
+            }
+            i.to_ingredient("").map_err(|(_, why)| entry(why))
         })
         .collect::<Result<Vec<_>, _>>()?;
     let mut ingredients = ingredients;

@@ -2,6 +2,7 @@
 //! subcommands, which resolve them into typed options for the library.
 //! Only this module and `main` decide exit codes.
 
+mod balance;
 mod batch;
 mod characterise;
 mod db;
@@ -33,6 +34,8 @@ pub enum Command {
     Report(report::ReportArgs),
     /// Characterise an ingredient from measured freezing points of known dilutions.
     Characterise(characterise::CharacteriseArgs),
+    /// Balance recipe files: new amounts that reach their targets.
+    Balance(balance::BalanceArgs),
     /// The batch log: record, list, show, measure, finalize, amend, export, import.
     Batch(batch::BatchArgs),
     /// The batch-log database: path, check, backup.
@@ -59,6 +62,7 @@ pub fn run() -> ExitCode {
     let outcome = match cli.command {
         Some(Command::Report(args)) => report::run(&args, cli.db.as_deref()),
         Some(Command::Characterise(args)) => characterise::run(&args),
+        Some(Command::Balance(args)) => balance::run(&args, cli.db.as_deref()),
         Some(Command::Batch(args)) => batch::run(&args, cli.db.as_deref()),
         Some(Command::Db(args)) => db::run(&args, cli.db.as_deref()),
         Some(Command::Sync(args)) => sync::run(&args, cli.db.as_deref()),

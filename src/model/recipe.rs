@@ -3,6 +3,7 @@
 
 use serde::{Deserialize, Serialize};
 
+use super::balancing::Request;
 use super::{Ingredient, Solute};
 
 /// What kind of product a recipe makes; decides the targets it is checked against.
@@ -124,6 +125,9 @@ pub struct Recipe {
     pub ingredients: Vec<Ingredient>,
     /// The lines, in order.
     pub lines: Vec<Line>,
+    /// What balancing is asked for this recipe: its file's `[balance]` table,
+    /// the rules on its lines and its prices (empty when the file gives none).
+    pub balance: Request,
 }
 
 impl Recipe {

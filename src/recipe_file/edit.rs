@@ -11,7 +11,9 @@ use toml_edit::{ArrayOfTables, DocumentMut, Item, Table, Value};
 
 use crate::model::{Amount, Line, OwnItems, Recipe};
 use crate::recipe_file::read::parse_recipe_leaning_on;
-use crate::recipe_file::{parse_recipe, recipe_to_toml};
+use crate::recipe_file::{Expect, SaveError, parse_recipe, recipe_to_toml, save_text};
+
+use super::write_balance::{RULE_KEYS, balance_tables, is_own, rule_of_line, rule_pairs};
 
 /// The new text of a recipe file, and whether comments and layout were kept.
 #[derive(Debug, Clone, PartialEq)]
@@ -54,11 +56,32 @@ pub fn rewrite(path: &Path, original: Option<&str>, recipe: &Recipe) -> Rewritte
     }
 }
 
-/// Whether two recipes agree in everything saved, amounts to a microgram.
+/// Saves `recipe` to `path` as [`rewrite`] gives it, never half written (see
+/// [`save_text`]): a failure, or a file that is not what `expect` says, leaves
+/// the old file as it was.
+pub fn save_recipe(
+    path: &Path,
+    original: Option<&str>,
+    recipe: &Recipe,
+    expect: Expect<'_>,
+) -> Result<Rewritten, SaveError> {
+    let out = rewrite(path, original, recipe);
+    save_text(path, expect, &out.text)?;
+    Ok(out)
+}
+
+/// Whether two recipes agree in everything saved, amounts to a milligram (or
+/// a microlitre) plus a millionth, as saved back (targets in any order: a file
+/// lists them in its own).
 fn same_recipe(a: &Recipe, b: &Recipe) -> bool {
+    let sorted = |r: &Recipe| {
+        let mut q = r.balance.clone();
+        q.sort_targets();
+        q
+    };
     let close = |x: &Amount, y: &Amount| match (x, y) {
         (Amount::Grams(p), Amount::Grams(q)) | (Amount::Millilitres(p), Amount::Millilitres(q)) => {
-            (p - q).abs() <= 1e-6 * p.abs().max(1.0)
+            (p - q).abs() <= 1e-3 + 1e-6 * p.abs()
         }
         _ => false,
     };
@@ -68,6 +91,7 @@ fn same_recipe(a: &Recipe, b: &Recipe) -> bool {
         && a.serving_frozen_fraction == b.serving_frozen_fraction
         && a.solutes == b.solutes
         && a.ingredients == b.ingredients
+        && sorted(a) == sorted(b)
         && a.lines.len() == b.lines.len()
         && a.lines
             .iter()
@@ -85,7 +109,13 @@ fn set(table: &mut Table, key: &str, mut value: Value) {
 
 /// A number as TOML: an integer when it is whole, else rounded to 0.001.
 fn number(x: f64) -> Value {
-    let rounded = (x * 1000.0).round() / 1000.0;
+    rounded(x, 3)
+}
+
+/// A number as TOML rounded to `decimals`: an integer when it is whole.
+fn rounded(x: f64, decimals: i32) -> Value {
+    let scale = 10f64.powi(decimals);
+    let rounded = (x * scale).round() / scale;
     if rounded.fract() == 0.0 && rounded.abs() < 1e15 {
         Value::from(rounded as i64)
     } else {
@@ -97,12 +127,14 @@ const AMOUNT_KEYS: [&str; 4] = ["g", "kg", "ml", "l"];
 
 fn write_amount(table: &mut Table, amount: Amount) {
     let old_key = AMOUNT_KEYS.into_iter().find(|k| table.contains_key(k));
-    let (key, value) = match (amount, old_key) {
-        (Amount::Grams(g), Some("kg")) => ("kg", g / 1000.0),
-        (Amount::Grams(g), _) => ("g", g),
-        (Amount::Millilitres(ml), Some("l")) => ("l", ml / 1000.0),
-        (Amount::Millilitres(ml), _) => ("ml", ml),
+    // To a milligram (or a microlitre) in whatever unit the line uses.
+    let (key, value, decimals) = match (amount, old_key) {
+        (Amount::Grams(g), Some("kg")) => ("kg", g / 1000.0, 6),
+        (Amount::Grams(g), _) => ("g", g, 3),
+        (Amount::Millilitres(ml), Some("l")) => ("l", ml / 1000.0, 6),
+        (Amount::Millilitres(ml), _) => ("ml", ml, 3),
     };
+    let number = |x: f64| rounded(x, decimals);
     match old_key {
         Some(old) if old == key => set(table, key, number(value)),
         Some(old) => {
@@ -121,12 +153,35 @@ fn write_amount(table: &mut Table, amount: Amount) {
     }
 }
 
-fn write_line(table: &mut Table, line: &Line) {
+fn write_line(table: &mut Table, line: &Line, rule: Vec<(&'static str, Value)>) {
     let same = table.get("ingredient").and_then(Item::as_str) == Some(line.ingredient.as_str());
     if !same {
         set(table, "ingredient", Value::from(line.ingredient.as_str()));
     }
     write_amount(table, line.amount);
+    for key in RULE_KEYS {
+        match rule.iter().find(|(k, _)| *k == key) {
+            Some((_, value)) => {
+                let old = table.get(key).and_then(Item::as_value);
+                let same = match (old, value) {
+                    (Some(Value::Boolean(a)), Value::Boolean(b)) => a.value() == b.value(),
+                    (Some(old), new) => as_number(old).is_some_and(|o| Some(o) == as_number(new)),
+                    (None, _) => false,
+                };
+                if !same {
+                    set(table, key, value.clone());
+                }
+            }
+            None => {
+                table.remove(key);
+            }
+        }
+    }
+}
+
+/// A TOML number (integer or float) as f64.
+fn as_number(v: &Value) -> Option<f64> {
+    v.as_float().or_else(|| v.as_integer().map(|i| i as f64))
 }
 
 fn edit(doc: &mut DocumentMut, before: &Recipe, recipe: &Recipe) {
@@ -152,47 +207,43 @@ fn edit(doc: &mut DocumentMut, before: &Recipe, recipe: &Recipe) {
             }
         }
     }
-    if before.lines != recipe.lines {
+    if before.lines != recipe.lines || before.balance.rules != recipe.balance.rules {
         edit_lines(root, recipe);
     }
-    if before.solutes != recipe.solutes || before.ingredients != recipe.ingredients {
+    let own_prices = |r: &Recipe| {
+        r.balance
+            .prices_per_kg
+            .iter()
+            .filter(|(id, _)| is_own(r, id))
+            .map(|(id, p)| (id.clone(), *p))
+            .collect::<Vec<_>>()
+    };
+    if before.solutes != recipe.solutes
+        || before.ingredients != recipe.ingredients
+        || own_prices(before) != own_prices(recipe)
+    {
         replace_own_items(root, recipe);
     }
-}
-
-fn edit_lines(root: &mut Table, recipe: &Recipe) {
-    let Some(lines) = root.get_mut("line").and_then(Item::as_array_of_tables_mut) else {
-        let mut lines = ArrayOfTables::new();
-        for line in &recipe.lines {
-            let mut t = Table::new();
-            write_line(&mut t, line);
-            lines.push(t);
-        }
-        root.insert("line", Item::ArrayOfTables(lines));
-        return;
-    };
-    for (k, line) in recipe.lines.iter().enumerate() {
-        match lines.get_mut(k) {
-            Some(table) => write_line(table, line),
-            None => {
-                let mut t = Table::new();
-                write_line(&mut t, line);
-                lines.push(t);
-            }
-        }
-    }
-    while lines.len() > recipe.lines.len() {
-        lines.remove(lines.len() - 1);
+    let mut asked = before.clone();
+    asked.lines.clone_from(&recipe.lines);
+    asked.ingredients.clone_from(&recipe.ingredients);
+    if balance_tables(&asked) != balance_tables(recipe) {
+        replace_balance_tables(root, recipe);
     }
 }
 
-/// The user's own solutes and ingredients are few and rarely commented: when
-/// they change, their sections are written afresh.
-fn replace_own_items(root: &mut Table, recipe: &Recipe) {
-    let Ok(fresh) = recipe_to_toml(recipe).parse::<DocumentMut>() else {
+/// Writes the `[prices]` and `[balance]` tables afresh (or removes them).
+fn replace_balance_tables(root: &mut Table, recipe: &Recipe) {
+    replace_sections(root, &balance_tables(recipe), &["prices", "balance"]);
+}
+
+/// Replaces the sections `keys` of the file with those of the `fresh` text
+/// (removing those it lacks).
+fn replace_sections(root: &mut Table, fresh: &str, keys: &[&str]) {
+    let Ok(fresh) = fresh.parse::<DocumentMut>() else {
         return;
     };
-    for key in ["solute", "ingredient"] {
+    for key in keys {
         match fresh.get(key) {
             Some(item) => {
                 root.insert(key, item.clone());
@@ -202,6 +253,43 @@ fn replace_own_items(root: &mut Table, recipe: &Recipe) {
             }
         }
     }
+}
+
+fn edit_lines(root: &mut Table, recipe: &Recipe) {
+    let Some(lines) = root.get_mut("line").and_then(Item::as_array_of_tables_mut) else {
+        let mut lines = ArrayOfTables::new();
+        for (k, line) in recipe.lines.iter().enumerate() {
+            let mut t = Table::new();
+            write_line(&mut t, line, rule_of(recipe, k));
+            lines.push(t);
+        }
+        root.insert("line", Item::ArrayOfTables(lines));
+        return;
+    };
+    for (k, line) in recipe.lines.iter().enumerate() {
+        match lines.get_mut(k) {
+            Some(table) => write_line(table, line, rule_of(recipe, k)),
+            None => {
+                let mut t = Table::new();
+                write_line(&mut t, line, rule_of(recipe, k));
+                lines.push(t);
+            }
+        }
+    }
+    while lines.len() > recipe.lines.len() {
+        lines.remove(lines.len() - 1);
+    }
+}
+
+/// The rule keys to write on line `k`.
+fn rule_of(recipe: &Recipe, k: usize) -> Vec<(&'static str, Value)> {
+    rule_of_line(recipe, k).map(rule_pairs).unwrap_or_default()
+}
+
+/// The user's own solutes and ingredients are few and rarely commented: when
+/// they change, their sections are written afresh.
+fn replace_own_items(root: &mut Table, recipe: &Recipe) {
+    replace_sections(root, &recipe_to_toml(recipe), &["solute", "ingredient"]);
 }
 
 #[cfg(test)]

@@ -15,14 +15,16 @@ mod append;
 mod edit;
 mod library;
 mod read;
+mod read_balance;
 mod save;
 mod write;
+mod write_balance;
 
 use std::fmt;
 use std::path::PathBuf;
 
 pub use append::{AppendRefused, append_own_items};
-pub use edit::{Rewritten, rewrite};
+pub use edit::{Rewritten, rewrite, save_recipe};
 pub use library::{own_item_definition, own_items_in, read_own_items};
 pub use read::{
     parse_recipe, parse_recipe_using, parse_recipe_with, read_recipe, read_recipe_using,

@@ -2,6 +2,7 @@
 //! catalog and the file's own items. Every error names the file, the line and
 //! column, and what would be valid; nothing here panics on any input.
 
+use std::collections::BTreeMap;
 use std::ops::Range;
 use std::path::Path;
 
@@ -13,6 +14,7 @@ use crate::model::{Amount, Ingredient, Line, OwnItems, Recipe, Solute, SoluteKin
 use crate::thermo::binary::WaterModel;
 
 use super::RecipeFileError;
+use super::read_balance::{BalanceDoc, BalanceParts, RuleDoc, request_from_doc};
 
 #[derive(Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -30,6 +32,10 @@ struct RecipeDoc {
     ingredient: Vec<Spanned<IngredientTable>>,
     #[serde(default)]
     line: Vec<Spanned<LineDoc>>,
+    #[serde(default)]
+    prices: BTreeMap<Spanned<String>, Spanned<f64>>,
+    #[serde(default)]
+    balance: Option<Spanned<BalanceDoc>>,
 }
 
 #[derive(Deserialize)]
@@ -64,6 +70,29 @@ struct LineDoc {
     ml: Option<Spanned<f64>>,
     #[serde(default)]
     l: Option<Spanned<f64>>,
+    #[serde(default)]
+    fixed: Option<Spanned<bool>>,
+    #[serde(default)]
+    min_g: Option<Spanned<f64>>,
+    #[serde(default)]
+    max_g: Option<Spanned<f64>>,
+    #[serde(default)]
+    min_pct: Option<Spanned<f64>>,
+    #[serde(default)]
+    max_pct: Option<Spanned<f64>>,
+}
+
+impl LineDoc {
+    /// The balancing rule written on the line.
+    fn rule(&self) -> RuleDoc {
+        RuleDoc {
+            fixed: self.fixed.clone(),
+            min_g: self.min_g.clone(),
+            max_g: self.max_g.clone(),
+            min_pct: self.min_pct.clone(),
+            max_pct: self.max_pct.clone(),
+        }
+    }
 }
 
 /// 1-based line and column of byte offset `at` in `text`.
@@ -292,6 +321,19 @@ fn parse(
         let span = doc.line.first().map_or(doc.name.span(), |l| l.span());
         return Err(ctx.err(span, "the recipe's lines add up to nothing: give at least one line an amount above zero (`[[line]]` with `g = ...`)"));
     }
+    let rules: Vec<RuleDoc> = doc.line.iter().map(|l| l.get_ref().rule()).collect();
+    let parts = BalanceParts {
+        table: doc.balance.as_ref(),
+        rules: lines
+            .iter()
+            .map(|l| l.ingredient.as_str())
+            .zip(&rules)
+            .collect(),
+        prices: &doc.prices,
+        own_ingredients: doc.ingredient.iter().map(Spanned::get_ref).collect(),
+    };
+    let balance = request_from_doc(&parts, &lines, catalog)
+        .map_err(|(span, message)| ctx.err(span, message))?;
     let mut recipe = Recipe {
         name,
         style,
@@ -300,6 +342,7 @@ fn parse(
         solutes,
         ingredients,
         lines,
+        balance,
     };
     if let Some(adopted) = adopted
         && !library.is_empty()

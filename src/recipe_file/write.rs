@@ -1,8 +1,11 @@
 //! Writing a recipe as a fresh TOML file in the format [`super::parse_recipe`]
-//! reads (for a new file, or when a file's own layout cannot be kept).
+//! reads (for a new file, or when a file's own layout cannot be kept), what
+//! it asks balancing included.
 
 use crate::model::{Amount, Ingredient, Recipe, Solute};
 use crate::thermo::binary::WaterModel;
+
+use super::write_balance::{balance_tables, own_price_line, rule_of_line, rule_pairs};
 
 /// Writes a recipe as TOML in the format [`super::parse_recipe`] reads. Amounts by
 /// mass are written in g, by volume in mL.
@@ -18,8 +21,12 @@ pub fn recipe_to_toml(recipe: &Recipe) -> String {
     if let Some(t) = recipe.serving_frozen_fraction {
         let _ = writeln!(out, "serving_target = {t}");
     }
-    out.push_str(&own_items_toml(&recipe.solutes, &recipe.ingredients));
-    for l in &recipe.lines {
+    out.push_str(&own_items_with_prices(
+        &recipe.solutes,
+        &recipe.ingredients,
+        &|id| own_price_line(recipe, id),
+    ));
+    for (k, l) in recipe.lines.iter().enumerate() {
         let (key, v) = match l.amount {
             Amount::Grams(g) => ("g", g),
             Amount::Millilitres(ml) => ("ml", ml),
@@ -29,7 +36,11 @@ pub fn recipe_to_toml(recipe: &Recipe) -> String {
             "\n[[line]]\ningredient = {}\n{key} = {v:?}\n",
             q(&l.ingredient)
         );
+        for (key, value) in rule_of_line(recipe, k).map(rule_pairs).unwrap_or_default() {
+            let _ = writeln!(out, "{key} = {value}");
+        }
     }
+    out.push_str(&balance_tables(recipe));
     out
 }
 
@@ -37,6 +48,16 @@ pub fn recipe_to_toml(recipe: &Recipe) -> String {
 /// starting with a blank line, in the format [`super::parse_recipe`] reads: a recipe file
 /// writes them before its lines, and a characterisation appends them to a file.
 pub fn own_items_toml(solutes: &[Solute], ingredients: &[Ingredient]) -> String {
+    own_items_with_prices(solutes, ingredients, &|_| None)
+}
+
+/// As [`own_items_toml`], with each ingredient's `price_per_kg` line where
+/// `price_line` gives one.
+fn own_items_with_prices(
+    solutes: &[Solute],
+    ingredients: &[Ingredient],
+    price_line: &dyn Fn(&str) -> Option<String>,
+) -> String {
     use std::fmt::Write as _;
     let q = |s: &str| toml::Value::String(s.to_string()).to_string();
     let mut out = String::new();
@@ -95,11 +116,15 @@ pub fn own_items_toml(solutes: &[Solute], ingredients: &[Ingredient]) -> String 
         if !i.source.is_empty() {
             let _ = writeln!(out, "source = {}", q(&i.source));
         }
+        if let Some(price) = price_line(&i.id) {
+            out.push_str(&price);
+        }
     }
     out
 }
 
-fn toml_key(k: &str) -> String {
+/// A key as TOML: bare when it can be, quoted otherwise.
+pub(super) fn toml_key(k: &str) -> String {
     if k.bytes()
         .all(|b| b.is_ascii_alphanumeric() || b == b'-' || b == b'_')
         && !k.is_empty()

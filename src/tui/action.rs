@@ -98,6 +98,14 @@ commands! {
     Calibrate => "calibrate", "Put in force the correction fitted for the kind under the cursor (asks first)";
     CalibrationOff => "calibration-off", "Take out the correction in force for the kind under the cursor (asks first)";
     StartBatch => "start-batch", "Start a batch from the recipe in the editor";
+    OpenBalance => "balance", "Balance the recipe: targets, the lines that may move, the new amounts side by side";
+    ReduceToStrength => "reduce-to-strength", "Reduce a spirit or liqueur to a strength (% vol) with water";
+    EditBalanceRow => "change-row", "Change the row under the cursor: a target's range, or whether a line may move";
+    AddTarget => "add-target", "Add a target: NAME=VALUE or NAME=LOW..HIGH (fat_pct=6..9)";
+    DeleteTarget => "delete-target", "Remove the target under the cursor";
+    SwitchObjective => "switch-objective", "Switch between least change and least cost";
+    SetPrice => "set-price", "Set the price per kg of the line's ingredient (kept in the batch log)";
+    AcceptBalance => "accept-balance", "Accept the new amounts as one step (undo takes them back)";
     AddMeasurement => "add-measurement", "Add a measurement to the open batch";
     AddNote => "add-note", "Add a note to the open batch";
     Finalize => "finalize", "Finalise the open batch (it can then only be amended)";

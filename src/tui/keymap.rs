@@ -133,6 +133,7 @@ const BATCHES: &[Context] = &[C::Batches];
 const DETAIL: &[Context] = &[C::BatchDetail];
 const COMPARE: &[Context] = &[C::Compare];
 const SETTINGS: &[Context] = &[C::Settings];
+const BALANCE: &[Context] = &[C::Balance];
 const LISTS: &[Context] = &[
     C::Recipe,
     C::Ingredients,
@@ -140,6 +141,7 @@ const LISTS: &[Context] = &[
     C::Compare,
     C::Settings,
     C::Reader,
+    C::Balance,
 ];
 const SEARCHABLE: &[Context] = &[C::Ingredients, C::Batches];
 const TEXT: &[Context] = &[C::Prompt, C::Picker, C::Form];
@@ -230,6 +232,41 @@ pub const KEYMAP: &[Binding] = &[
         Some("batch"),
     ),
     bind(BATCHES, Key::ch('S'), Command::SyncNow, Some("sync")),
+    bind(RECIPE, Key::ch('B'), Command::OpenBalance, Some("balance")),
+    bind(RECIPE, Key::ch('R'), Command::ReduceToStrength, None),
+    // The balance panel on the recipe screen.
+    bind(BALANCE, Key::ch('?'), Command::Help, Some("help")),
+    bind(BALANCE, Key::plain(K::F(1)), Command::Help, None),
+    bind(
+        BALANCE,
+        Key::ch('a'),
+        Command::AcceptBalance,
+        Some("accept"),
+    ),
+    bind(BALANCE, Key::plain(K::Esc), Command::Cancel, Some("cancel")),
+    bind(
+        BALANCE,
+        Key::plain(K::Enter),
+        Command::EditBalanceRow,
+        Some("change"),
+    ),
+    bind(BALANCE, Key::ch(' '), Command::EditBalanceRow, None),
+    bind(BALANCE, Key::ch('e'), Command::EditBalanceRow, None),
+    bind(
+        BALANCE,
+        Key::ch('n'),
+        Command::AddTarget,
+        Some("add target"),
+    ),
+    bind(BALANCE, Key::ch('d'), Command::DeleteTarget, None),
+    bind(BALANCE, Key::plain(K::Delete), Command::DeleteTarget, None),
+    bind(BALANCE, Key::ch('p'), Command::SetPrice, Some("price")),
+    bind(
+        BALANCE,
+        Key::ch('c'),
+        Command::SwitchObjective,
+        Some("least cost"),
+    ),
     // Ingredients.
     bind(SEARCHABLE, Key::ch('/'), Command::Search, Some("search")),
     bind(SEARCHABLE, Key::plain(K::Esc), Command::ClearFilter, None),
@@ -398,6 +435,15 @@ pub fn action_for(context: Context, event: KeyEvent) -> Option<Action> {
         }
         _ => None,
     }
+}
+
+/// How the first key of `command` in `context` is written, for text that
+/// names a key (so the text follows the table).
+pub fn key_label(context: Context, command: Command) -> String {
+    effective_bindings(context)
+        .into_iter()
+        .find(|b| b.command == command)
+        .map_or_else(|| command.name().to_string(), |b| b.key.label())
 }
 
 /// The status-bar hints of `context`: (keys, word) pairs, in table order.

@@ -9,7 +9,7 @@ use tui_input::{Input, InputRequest};
 
 use super::action::{Action, Command, Effect};
 use super::handlers::{
-    batch_forms, batches, characterise, ingredients, own_items, recipe, settings,
+    balance, batch_forms, batches, characterise, ingredients, own_items, recipe, settings,
 };
 use super::state::{Overlay, PickerPurpose, Question, ReaderKind, Screen, State};
 
@@ -115,6 +115,7 @@ fn command_update(state: &mut State, command: Command) -> Vec<Effect> {
         Command::ShowBatches => show(state, Screen::Batches),
         Command::ShowSettings => show(state, Screen::Settings),
         _ => match state.screen {
+            Screen::Recipe if state.recipe.balance.is_some() => balance::command(state, command),
             Screen::Recipe => recipe::command(state, command),
             Screen::Ingredients => ingredients::command(state, command),
             Screen::Batches => batches::command(state, command),
@@ -384,6 +385,9 @@ fn accept_prompt(state: &mut State, prompt: super::state::Prompt) -> Vec<Effect>
             batches::accept(state, &prompt.purpose, &text)
         }
         P::Setting(field) => settings::accept(state, *field, &text),
+        P::BalanceTarget(_) | P::Price(_) | P::ReduceToStrength => {
+            balance::accept(state, &prompt.purpose, &text)
+        }
     };
     match outcome {
         Ok(effects) => effects,

@@ -127,3 +127,150 @@ fn serving_target_out_of_range() {
         &["between 0 and 1"],
     );
 }
+
+// ---- what a file asks balancing: [balance], line rules, prices ----------------
+
+#[test]
+fn balance_unknown_key_lists_the_valid_ones() {
+    check(
+        "balance-unknown-key.toml",
+        8,
+        1,
+        &["unknown key `fat`", "fat_pct", "frozen_at", "sugar_g_per_l"],
+    );
+}
+
+#[test]
+fn balance_low_above_high() {
+    check(
+        "balance-low-above-high.toml",
+        8,
+        11,
+        &["fat_pct", "above the high bound"],
+    );
+}
+
+#[test]
+fn balance_target_not_a_pair() {
+    check(
+        "balance-target-not-a-pair.toml",
+        8,
+        11,
+        &["[low, high] pair"],
+    );
+}
+
+#[test]
+fn balance_target_not_a_number() {
+    check(
+        "balance-target-not-a-number.toml",
+        8,
+        13,
+        &["a number (like 20) or a [low, high] pair"],
+    );
+}
+
+#[test]
+fn balance_target_nan() {
+    check(
+        "balance-target-nan.toml",
+        8,
+        11,
+        &["fat_pct", "not a number"],
+    );
+}
+
+#[test]
+fn balance_vary_names_a_line() {
+    check(
+        "balance-vary-not-a-line.toml",
+        8,
+        23,
+        &["`heavy-cream`", "the lines are: whole-milk"],
+    );
+}
+
+#[test]
+fn balance_unknown_objective() {
+    check(
+        "balance-unknown-objective.toml",
+        8,
+        13,
+        &["cheapest", "\"nearest\"", "\"cost\""],
+    );
+}
+
+#[test]
+fn balance_two_sizes() {
+    check(
+        "balance-two-sizes.toml",
+        9,
+        13,
+        &["`mass_g` or `volume_ml`, not both"],
+    );
+}
+
+#[test]
+fn balance_unknown_solute_suggests_the_nearest() {
+    check(
+        "balance-unknown-solute.toml",
+        8,
+        17,
+        &["`glucoze`", "`glucose`"],
+    );
+}
+
+#[test]
+fn balance_frozen_share_above_zero() {
+    check("balance-frozen-above-zero.toml", 8, 67, &["below 0 °C"]);
+}
+
+#[test]
+fn line_rule_fixed_with_a_bound() {
+    check(
+        "line-rule-fixed-with-bound.toml",
+        6,
+        9,
+        &["`whole-milk`", "a fixed line takes no min or max"],
+    );
+}
+
+#[test]
+fn line_rule_given_twice_for_one_ingredient() {
+    check(
+        "line-rule-twice.toml",
+        15,
+        9,
+        &["`sucrose` already has a rule", "give it once"],
+    );
+}
+
+#[test]
+fn prices_unknown_ingredient_suggests_the_nearest() {
+    check(
+        "prices-unknown-ingredient.toml",
+        9,
+        1,
+        &["`whole-mlik`", "`whole-milk`"],
+    );
+}
+
+#[test]
+fn prices_negative() {
+    check(
+        "prices-negative.toml",
+        8,
+        14,
+        &["zero or more per kg", "-0.9"],
+    );
+}
+
+#[test]
+fn prices_of_an_own_ingredient_belong_on_it() {
+    check(
+        "prices-own-ingredient.toml",
+        15,
+        1,
+        &["`quay-syrup`", "price_per_kg"],
+    );
+}

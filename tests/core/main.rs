@@ -7,6 +7,7 @@ mod catalog;
 mod invalid_recipes;
 mod measure;
 mod properties;
+mod recipe_balance;
 mod reference_binary;
 mod reference_published;
 mod warnings;

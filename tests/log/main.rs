@@ -9,6 +9,7 @@ mod batch_cli;
 mod batch_processes;
 mod calibrate_cli;
 mod characterise_cli;
+mod cli_balance;
 mod cli_report;
 mod compare_cli;
 mod own_items_cli;

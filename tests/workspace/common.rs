@@ -30,6 +30,7 @@ pub fn tide_mill_fior_di_latte() -> Recipe {
             line("dextrose-monohydrate", 35.0),
             line("stabiliser-blend", 5.0),
         ],
+        ..Recipe::default()
     }
 }
 
@@ -106,6 +107,7 @@ pub fn gullrock_blackcurrant() -> Recipe {
                 amount: Amount::Grams(4600.0),
             },
         ],
+        ..Recipe::default()
     }
 }
 

@@ -147,6 +147,42 @@ fn settings_and_own_ingredients_survive_a_restart() {
 }
 
 #[test]
+fn prices_and_a_balanced_recipes_targets_survive_a_restart() {
+    let dir = tempdir();
+    let db = dir.path().join("log.db");
+    let (name, targets) = {
+        let (mut s, mut services) = open(&db, None);
+        run(&mut s, &mut services, Command::OpenBalance);
+        assert!(s.recipe.balance.is_some());
+        // An invented wholesale price for the first line's ingredient.
+        run(&mut s, &mut services, Command::SetPrice);
+        cmd(&mut s, Command::ClearField);
+        type_text(&mut s, "0.95");
+        run(&mut s, &mut services, Command::Confirm);
+        let targets = s
+            .recipe
+            .balance
+            .as_ref()
+            .map(|p| p.request.targets.clone())
+            .unwrap_or_default();
+        run(&mut s, &mut services, Command::AcceptBalance);
+        assert!(s.recipe.balance.is_none(), "{:?}", s.message);
+        run(&mut s, &mut services, Command::Save);
+        assert!(!s.recipe.is_dirty(), "{:?}", s.message);
+        (s.recipe.recipe.name.clone(), targets)
+    };
+    let (s, _) = open(&db, None);
+    assert_eq!(s.recipe.recipe.name, name);
+    let first = &s.recipe.recipe.lines[0].ingredient;
+    assert_eq!(s.settings.prices_per_kg.get(first), Some(&0.95));
+    assert!(!targets.is_empty());
+    assert_eq!(
+        s.recipe.recipe.balance.targets, targets,
+        "the version in the log keeps the targets"
+    );
+}
+
+#[test]
 fn a_recipe_saves_as_versions_and_as_a_new_recipe() {
     let dir = tempdir();
     let (mut s, mut services) = open(&dir.path().join("log.db"), None);

@@ -4,6 +4,7 @@
 
 mod common;
 
+mod balance;
 mod cautions;
 mod effects;
 mod keymap;

@@ -159,6 +159,19 @@ impl Session {
         }
     }
 
+    /// Saves back to the file (Ctrl-S), waits for the layout to be kept, quits
+    /// and returns the file's text.
+    fn save_back_and_quit(&mut self, file: &std::path::Path) -> String {
+        self.keys("\x13"); // Ctrl-S saves back to the file
+        self.wait_for(
+            |t| t.contains("comments and layout kept"),
+            "the save message",
+        );
+        self.keys("q");
+        self.wait_exit();
+        std::fs::read_to_string(file).unwrap_or_default()
+    }
+
     fn restored(&self) -> (bool, bool) {
         // Give the reader thread a moment to take in the last bytes.
         std::thread::sleep(Duration::from_millis(200));
@@ -175,6 +188,27 @@ fn freezing_point(screen: &str) -> Option<String> {
     let after = line.split("Freezing point").nth(1)?;
     let value = after.split('│').next()?.trim();
     (!value.is_empty()).then(|| value.to_string())
+}
+
+/// `gelu edit` on a new file holding `text`, in a fresh folder with its own
+/// batch log, without colour: the folder (kept alive), the file and the session.
+fn edit_file(
+    name: &str,
+    text: &str,
+    cols: u16,
+    rows: u16,
+) -> (tempfile::TempDir, std::path::PathBuf, Session) {
+    let dir = match tempfile::tempdir() {
+        Ok(d) => d,
+        Err(e) => panic!("tempdir: {e}"),
+    };
+    let file = dir.path().join(name);
+    if let Err(e) = std::fs::write(&file, text) {
+        panic!("{e}");
+    }
+    let edit = std::path::Path::new("edit");
+    let s = Session::start_with(&dir.path().join("log.db"), &[edit, &file], cols, rows, true);
+    (dir, file, s)
 }
 
 const ENTER: &str = "\r";
@@ -287,14 +321,7 @@ fn gelu_edit_saves_back_to_the_file_keeping_its_comments() {
     s.keys("\x15"); // Ctrl-U clears the field
     s.type_slowly("600");
     s.keys("\r");
-    s.keys("\x13"); // Ctrl-S saves back to the file
-    s.wait_for(
-        |t| t.contains("comments and layout kept"),
-        "the save message",
-    );
-    s.keys("q");
-    s.wait_exit();
-    let saved = std::fs::read_to_string(&file).unwrap_or_default();
+    let saved = s.save_back_and_quit(&file);
     assert!(
         saved.starts_with("# Breakwater kiosk, summer trial"),
         "{saved}"
@@ -381,4 +408,43 @@ fn a_distiller_batches_a_liqueur_in_litres_and_reads_its_freezer_behaviour() {
         serde_json::from_str(shown.lines().next().unwrap_or("{}")).unwrap_or_default();
     let volume = batch["prediction"]["volume_ml"].as_f64().unwrap_or(0.0);
     assert!((volume - 50_000.0).abs() < 1.0, "{volume} mL\n{shown}");
+}
+
+#[test]
+fn a_gelato_is_balanced_at_80x24_and_saved_back_with_its_targets() {
+    let text = "# The Quay Kitchen: pier gelato for the -12 °C cabinet\nname = \"Pier milk gelato\"\nstyle = \"gelato\"\n\n[[line]]\ningredient = \"whole-milk\"\ng = 650 # the morning milk\n\n[[line]]\ningredient = \"heavy-cream\"\ng = 120\n\n[[line]]\ningredient = \"skim-milk-powder\"\ng = 40\n\n[[line]]\ningredient = \"sucrose\"\ng = 160\n\n[[line]]\ningredient = \"dextrose-monohydrate\"\ng = 25\n";
+    let (_dir, file, mut s) = edit_file("pier-gelato.toml", text, 80, 24);
+    s.wait_for(
+        |t| t.contains("Pier milk gelato") && t.contains("Freezing point"),
+        "the file in the editor",
+    );
+    s.keys("B");
+    let panel = s.wait_for(
+        |t| t.contains("Balance: Pier milk gelato") && t.contains("Balanced"),
+        "the balance panel with its answer",
+    );
+    for shown in ["frozen_at.-13", "fat_pct", "balanced", "a accept"] {
+        assert!(panel.contains(shown), "{shown}:\n{panel}");
+    }
+    s.keys("a");
+    s.wait_for(
+        |t| t.contains("new amounts and the targets are in the recipe"),
+        "the answer accepted",
+    );
+    let saved = s.save_back_and_quit(&file);
+    assert!(
+        saved.starts_with("# The Quay Kitchen: pier gelato for the -12 °C cabinet"),
+        "{saved}"
+    );
+    assert!(saved.contains("# the morning milk"), "{saved}");
+    assert!(
+        !saved.contains("g = 650 #"),
+        "the milk was balanced:\n{saved}"
+    );
+    assert!(
+        saved.contains("[balance]") && saved.contains("frozen_at = [{ temp_c = -13"),
+        "{saved}"
+    );
+    let (alternate, cursor_hidden) = s.restored();
+    assert!(!alternate && !cursor_hidden);
 }

@@ -183,6 +183,22 @@ fn scenes() -> Vec<(&'static str, State)> {
         Action::ComparisonLoaded(Box::new(crate::measure_loop::compare_view())),
     );
     cmd(&mut calibrate, Command::Calibrate);
+    let mut balance = loaded_state();
+    cmd(&mut balance, Command::OpenBalance);
+    cmd(&mut balance, Command::Down);
+    let mut balance_liqueur = liqueur_state();
+    cmd(&mut balance_liqueur, Command::OpenBalance);
+    cmd(&mut balance_liqueur, Command::Last);
+    cmd(&mut balance_liqueur, Command::Up);
+    cmd(&mut balance_liqueur, Command::EditBalanceRow);
+    cmd(&mut balance_liqueur, Command::ClearField);
+    type_text(&mut balance_liqueur, "25");
+    cmd(&mut balance_liqueur, Command::Confirm);
+    let mut balance_conflict = loaded_state();
+    cmd(&mut balance_conflict, Command::OpenBalance);
+    cmd(&mut balance_conflict, Command::AddTarget);
+    type_text(&mut balance_conflict, "fat_pct=40..45");
+    cmd(&mut balance_conflict, Command::Confirm);
     vec![
         ("recipe", recipe),
         ("recipe_empty", empty),
@@ -202,6 +218,9 @@ fn scenes() -> Vec<(&'static str, State)> {
         ("characterise_form", characterise),
         ("compare", compare),
         ("calibrate_question", calibrate),
+        ("balance", balance),
+        ("balance_liqueur", balance_liqueur),
+        ("balance_conflict", balance_conflict),
     ]
 }
 

@@ -23,6 +23,8 @@ const KEY_SERVING: &str = "workspace.serving_target";
 const KEY_CABINET: &str = "workspace.cabinet_temp_c";
 const KEY_FREEZER: &str = "workspace.freezer_temp_c";
 const KEY_OPERATOR: &str = "workspace.operator";
+/// Prices per kg by ingredient id, as one JSON object (`{"sucrose":1.15}`).
+const KEY_PRICES: &str = "workspace.prices_per_kg";
 
 /// The settings as (key, value) pairs for the database.
 pub fn settings_pairs(s: &Settings) -> Vec<(&'static str, String)> {
@@ -50,6 +52,10 @@ pub fn settings_pairs(s: &Settings) -> Vec<(&'static str, String)> {
         ),
         (KEY_OPERATOR, s.operator.clone()),
         (SYNC_URL_KEY, s.sync_url.clone()),
+        (
+            KEY_PRICES,
+            serde_json::to_string(&s.prices_per_kg).unwrap_or_else(|_| "{}".into()),
+        ),
     ]
 }
 
@@ -95,6 +101,14 @@ pub fn load_settings(store: &Store) -> Settings {
         s.sync_url = v;
     }
     s.site_code = store.site_code().unwrap_or_default();
+    if let Some(v) = get(KEY_PRICES)
+        && let Ok(prices) = serde_json::from_str::<std::collections::BTreeMap<String, f64>>(&v)
+    {
+        s.prices_per_kg = prices
+            .into_iter()
+            .filter(|(_, p)| *p >= 0.0 && p.is_finite())
+            .collect();
+    }
     s
 }
 

@@ -300,8 +300,12 @@ fn loaded_file(path: &Path, recipe: Recipe, text: String) -> Action {
 }
 
 fn save_file(path: &Path, original: Option<&str>, recipe: Recipe) -> anyhow::Result<Action> {
-    let out = crate::recipe_file::rewrite(path, original, &recipe);
-    crate::recipe_file::save_text(path, crate::recipe_file::Expect::Anything, &out.text)?;
+    let out = crate::recipe_file::save_recipe(
+        path,
+        original,
+        &recipe,
+        crate::recipe_file::Expect::Anything,
+    )?;
     let how = if out.kept_layout {
         "comments and layout kept"
     } else {

@@ -4,6 +4,7 @@
 
 mod common;
 
+pub mod balance;
 pub mod batch_forms;
 pub mod batches;
 pub mod characterise;

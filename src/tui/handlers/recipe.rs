@@ -121,6 +121,8 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
             ));
         }
         Command::StartBatch => super::batch_forms::open_batch_form(state),
+        Command::OpenBalance => super::balance::open(state),
+        Command::ReduceToStrength => super::balance::ask_strength(state),
         _ => {}
     }
     Vec::new()
@@ -203,6 +205,7 @@ pub fn loaded(state: &mut State, recipe: Recipe, source: RecipeSource) {
     state.recipe.cursor = 0;
     state.recipe.undo.clear();
     state.recipe.redo.clear();
+    state.recipe.balance = None;
     state.screen = Screen::Recipe;
     state.refresh_catalog();
     state.reanalyse();

@@ -16,6 +16,8 @@ pub enum Context {
     BatchDetail,
     /// Predicted against measured over the batches of the log.
     Compare,
+    /// The balance panel on the recipe screen.
+    Balance,
     /// Browsing the settings.
     Settings,
     /// Typing into a one-line prompt.
@@ -32,13 +34,14 @@ pub enum Context {
 
 impl Context {
     /// Every context.
-    pub const ALL: [Context; 12] = [
+    pub const ALL: [Context; 13] = [
         Context::Global,
         Context::Recipe,
         Context::Ingredients,
         Context::Batches,
         Context::BatchDetail,
         Context::Compare,
+        Context::Balance,
         Context::Settings,
         Context::Prompt,
         Context::Picker,
@@ -74,6 +77,7 @@ impl Context {
             Context::Batches => "Batch log",
             Context::BatchDetail => "One batch",
             Context::Compare => "Predicted against measured",
+            Context::Balance => "Balancing the recipe",
             Context::Settings => "Settings",
             Context::Prompt => "Typing a value",
             Context::Picker => "Picking from a list",

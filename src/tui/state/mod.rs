@@ -1,6 +1,7 @@
 //! The whole state of the workspace: one struct the loop owns, which `update`
 //! changes and `view` draws. Nothing here does I/O.
 
+use std::collections::BTreeMap;
 use std::path::PathBuf;
 
 use crate::analysis::{
@@ -11,11 +12,13 @@ use crate::catalog::Catalog;
 use crate::model::units::trim_number;
 use crate::model::{MassUnit, Recipe, TempUnit};
 
+mod balance;
 mod batches;
 mod context;
 mod overlay;
 mod search;
 
+pub use balance::BalancePanel;
 pub use batches::*;
 pub use context::Context;
 pub use overlay::*;
@@ -85,6 +88,8 @@ pub struct Settings {
     pub site_code: String,
     /// The hub's address (`sync_url`), never with a password; empty when none.
     pub sync_url: String,
+    /// Prices per kg by ingredient id, for least cost (any currency).
+    pub prices_per_kg: BTreeMap<String, f64>,
 }
 
 impl Default for Settings {
@@ -99,6 +104,7 @@ impl Default for Settings {
             operator: String::new(),
             site_code: String::new(),
             sync_url: String::new(),
+            prices_per_kg: BTreeMap::new(),
         }
     }
 }
@@ -144,6 +150,8 @@ pub struct RecipeState {
     pub redo: Vec<Recipe>,
     /// The analysis of `recipe`, or why there is none.
     pub analysis: Result<Analysis, String>,
+    /// The balance panel, when it is open.
+    pub balance: Option<BalancePanel>,
 }
 
 impl RecipeState {
@@ -347,6 +355,7 @@ impl State {
                 undo: Vec::new(),
                 redo: Vec::new(),
                 analysis: Err(String::new()),
+                balance: None,
             },
             ingredients: IngredientsState::default(),
             batches: BatchesState {
@@ -380,6 +389,9 @@ impl State {
             }
             None if self.screen == Screen::Batches && self.batches.detail.is_some() => {
                 Context::BatchDetail
+            }
+            None if self.screen == Screen::Recipe && self.recipe.balance.is_some() => {
+                Context::Balance
             }
             None => self.screen.context(),
         }

@@ -34,6 +34,12 @@ pub enum PromptPurpose {
     BatchNote(String),
     /// A setting's value.
     Setting(SettingField),
+    /// A balance target: a new one (`None`), or the range of the one at this index.
+    BalanceTarget(Option<usize>),
+    /// The price per kg of this ingredient, kept in the batch log.
+    Price(String),
+    /// The strength (% vol) to reduce the recipe to with water.
+    ReduceToStrength,
 }
 
 /// A one-line prompt.

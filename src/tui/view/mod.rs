@@ -2,6 +2,7 @@
 //! The frame is a tab bar, the screen shown, a message line and the key hints
 //! of the current mode (from the keymap); overlays are drawn on top.
 
+mod balance;
 mod batches;
 mod chrome;
 mod compare;
@@ -41,7 +42,10 @@ pub fn view(state: &State, frame: &mut Frame) {
     .areas(area);
     chrome::tabs(state, theme, frame, tabs);
     match state.screen {
-        Screen::Recipe => recipe::render(state, theme, frame, body),
+        Screen::Recipe => match &state.recipe.balance {
+            Some(panel) => balance::render(state, panel, theme, frame, body),
+            None => recipe::render(state, theme, frame, body),
+        },
         Screen::Ingredients => ingredients::render(state, theme, frame, body),
         Screen::Batches => batches::render(state, theme, frame, body),
         Screen::Settings => settings::render(state, theme, frame, body),
