@@ -217,3 +217,40 @@ fn a_batch_records_the_own_items_its_recipe_used() {
         "{alone} against {predicted}"
     );
 }
+
+#[test]
+fn gelu_balance_uses_the_logs_own_items_and_writes_them_into_the_file() {
+    let dir = tempfile::tempdir().unwrap();
+    let db = dir.path().join("log.db");
+    log_with_quince(&db);
+    let file = dir.path().join("quince.toml");
+    std::fs::write(&file, SORBET).unwrap();
+    // Without the log the quince is unknown, and the file cannot be balanced.
+    gelu(dir.path())
+        .args(["balance", "--target", "mass_g=2000"])
+        .arg(&file)
+        .assert()
+        .code(1);
+    // With it, the sorbet balances and the written file carries the quince itself.
+    gelu(dir.path())
+        .arg("--db")
+        .arg(&db)
+        .args(["balance", "--target", "mass_g=2000", "--write"])
+        .arg(&file)
+        .assert()
+        .success();
+    let written = std::fs::read_to_string(&file).unwrap();
+    assert!(
+        written.contains("# The Tide Mill quince sorbet."),
+        "{written}"
+    );
+    assert!(written.contains("id = \"tide-mill-quince\""), "{written}");
+    let report = gelu(dir.path())
+        .args(["report", "--json"])
+        .arg(&file)
+        .output()
+        .unwrap();
+    assert!(report.status.success(), "the file no longer needs the log");
+    let v: Value = serde_json::from_slice(&report.stdout).unwrap();
+    assert!((v["mass_g"].as_f64().unwrap() - 2000.0).abs() < 2.0, "{v}");
+}
