@@ -88,12 +88,34 @@ pub struct Options {
     pub serving_frozen_fraction: Option<f64>,
     /// Extra temperatures (°C) at which to report the frozen share.
     pub at_temps_c: Vec<f64>,
-    /// Display-cabinet temperature (°C).
+    /// Display-cabinet temperature (°C) for recipes that set none (the settings').
     pub cabinet_temp_c: f64,
-    /// Freezer temperature (°C).
+    /// Freezer temperature (°C) for recipes that set none (the settings').
     pub freezer_temp_c: f64,
+    /// A cabinet temperature (°C) asked for explicitly (a command-line flag): it
+    /// wins over the recipe's own.
+    pub cabinet_override_c: Option<f64>,
+    /// A freezer temperature (°C) asked for explicitly: it wins over the recipe's own.
+    pub freezer_override_c: Option<f64>,
     /// The unit temperatures are written in inside warning messages.
     pub temp_unit: TempUnit,
+}
+
+impl Options {
+    /// The cabinet temperature (°C) for `recipe`: an explicit one, else the
+    /// recipe's own, else the settings'.
+    pub fn cabinet_for(&self, recipe: &Recipe) -> f64 {
+        self.cabinet_override_c
+            .or(recipe.cabinet_temp_c)
+            .unwrap_or(self.cabinet_temp_c)
+    }
+
+    /// The freezer temperature (°C) for `recipe`, by the same rule.
+    pub fn freezer_for(&self, recipe: &Recipe) -> f64 {
+        self.freezer_override_c
+            .or(recipe.freezer_temp_c)
+            .unwrap_or(self.freezer_temp_c)
+    }
 }
 
 impl Default for Options {
@@ -103,6 +125,8 @@ impl Default for Options {
             at_temps_c: Vec::new(),
             cabinet_temp_c: DEFAULT_CABINET_TEMP_C,
             freezer_temp_c: DEFAULT_FREEZER_TEMP_C,
+            cabinet_override_c: None,
+            freezer_override_c: None,
             temp_unit: TempUnit::Celsius,
         }
     }
@@ -282,7 +306,7 @@ fn analyze_with(
         .map(|k| point(-(k as f64) * CURVE_STEP_K))
         .collect();
     let classic = classic::classic(&mix, catalog, recipe.style.is_drink());
-    let freezer = point(options.freezer_temp_c);
+    let freezer = point(options.freezer_for(recipe));
     let mut analysis = Analysis {
         name: recipe.name.clone(),
         style: recipe.style,
@@ -305,7 +329,7 @@ fn analyze_with(
         serving_temp_c: serum.temp_for_frozen_fraction(serving_frozen_fraction),
         ice_curve,
         at: options.at_temps_c.iter().map(|t| point(*t)).collect(),
-        cabinet: point(options.cabinet_temp_c),
+        cabinet: point(options.cabinet_for(recipe)),
         freezer,
         freezer_behaviour: FreezerBehaviour::from_frozen_fraction(freezer.frozen_fraction),
         glass_limit_temp_c: serum.glass_limit_temp_c(),

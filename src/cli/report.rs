@@ -34,6 +34,9 @@ pub struct ReportArgs {
     /// Show temperatures in °F in the text report.
     #[arg(long)]
     pub fahrenheit: bool,
+    /// The cabinet and freezer to report the frozen share in.
+    #[command(flatten)]
+    pub temps: super::own::TempArgs,
 }
 
 /// `--at`: a temperature in °C, or with a C or F suffix.
@@ -129,7 +132,7 @@ pub fn run(args: &ReportArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
         serving_frozen_fraction: args.serving_target,
         at_temps_c: args.at.clone(),
         temp_unit: unit,
-        ..Options::default()
+        ..super::own::analysis_options(db, &args.temps)
     };
     let stdout = std::io::stdout();
     let mut out = BufWriter::new(stdout.lock());

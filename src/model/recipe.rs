@@ -119,6 +119,11 @@ pub struct Recipe {
     pub notes: String,
     /// Share of water frozen at serving (0..1), when the recipe sets one.
     pub serving_frozen_fraction: Option<f64>,
+    /// The display-cabinet temperature this recipe is served from (°C), when its
+    /// file sets one (a shop's own cabinet); else the settings' or the default.
+    pub cabinet_temp_c: Option<f64>,
+    /// The freezer temperature this recipe is kept in (°C), when its file sets one.
+    pub freezer_temp_c: Option<f64>,
     /// The user's own solutes.
     pub solutes: Vec<Solute>,
     /// The user's own ingredients.

@@ -89,6 +89,8 @@ fn same_recipe(a: &Recipe, b: &Recipe) -> bool {
         && a.style == b.style
         && a.notes == b.notes
         && a.serving_frozen_fraction == b.serving_frozen_fraction
+        && a.cabinet_temp_c == b.cabinet_temp_c
+        && a.freezer_temp_c == b.freezer_temp_c
         && a.solutes == b.solutes
         && a.ingredients == b.ingredients
         && sorted(a) == sorted(b)
@@ -204,6 +206,27 @@ fn edit(doc: &mut DocumentMut, before: &Recipe, recipe: &Recipe) {
             Some(t) => set(root, "serving_target", number(t)),
             None => {
                 root.remove("serving_target");
+            }
+        }
+    }
+    for (key, was, now) in [
+        (
+            "cabinet_temp_c",
+            before.cabinet_temp_c,
+            recipe.cabinet_temp_c,
+        ),
+        (
+            "freezer_temp_c",
+            before.freezer_temp_c,
+            recipe.freezer_temp_c,
+        ),
+    ] {
+        if was != now {
+            match now {
+                Some(t) => set(root, key, number(t)),
+                None => {
+                    root.remove(key);
+                }
             }
         }
     }

@@ -15,6 +15,7 @@ use crate::thermo::binary::WaterModel;
 
 use super::RecipeFileError;
 use super::read_balance::{BalanceDoc, BalanceParts, RuleDoc, request_from_doc};
+use crate::model::units::COLDEST_TEMP_C;
 
 #[derive(Deserialize)]
 #[serde(deny_unknown_fields)]
@@ -26,6 +27,10 @@ struct RecipeDoc {
     notes: Option<String>,
     #[serde(default)]
     serving_target: Option<Spanned<f64>>,
+    #[serde(default)]
+    cabinet_temp_c: Option<Spanned<f64>>,
+    #[serde(default)]
+    freezer_temp_c: Option<Spanned<f64>>,
     #[serde(default)]
     solute: Vec<Spanned<SoluteDoc>>,
     #[serde(default)]
@@ -255,6 +260,8 @@ fn parse(
             Some(v)
         }
     };
+    let cabinet_temp_c = freezing_temp(&ctx, doc.cabinet_temp_c.as_ref(), "cabinet_temp_c")?;
+    let freezer_temp_c = freezing_temp(&ctx, doc.freezer_temp_c.as_ref(), "freezer_temp_c")?;
     let solutes = doc
         .solute
         .iter()
@@ -339,6 +346,8 @@ fn parse(
         style,
         notes: doc.notes.unwrap_or_default(),
         serving_frozen_fraction: serving_target,
+        cabinet_temp_c,
+        freezer_temp_c,
         solutes,
         ingredients,
         lines,
@@ -364,6 +373,28 @@ fn parse(
         *adopted = used;
     }
     Ok(recipe)
+}
+
+/// A recipe's own cabinet or freezer temperature (°C): where mixes freeze,
+/// between 0 °C and -60 °C.
+fn freezing_temp(
+    ctx: &Ctx,
+    value: Option<&Spanned<f64>>,
+    key: &str,
+) -> Result<Option<f64>, RecipeFileError> {
+    let Some(t) = value else {
+        return Ok(None);
+    };
+    let v = *t.get_ref();
+    if !(COLDEST_TEMP_C..=0.0).contains(&v) {
+        return Err(ctx.err(
+            t.span(),
+            format!(
+                "{key} is a temperature in °C between 0 and {COLDEST_TEMP_C} (like -12), not {v}"
+            ),
+        ));
+    }
+    Ok(Some(v))
 }
 
 fn catalog_error_id(e: &CatalogError) -> &str {

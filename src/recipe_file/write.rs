@@ -21,6 +21,12 @@ pub fn recipe_to_toml(recipe: &Recipe) -> String {
     if let Some(t) = recipe.serving_frozen_fraction {
         let _ = writeln!(out, "serving_target = {t}");
     }
+    if let Some(t) = recipe.cabinet_temp_c {
+        let _ = writeln!(out, "cabinet_temp_c = {t:?}");
+    }
+    if let Some(t) = recipe.freezer_temp_c {
+        let _ = writeln!(out, "freezer_temp_c = {t:?}");
+    }
     out.push_str(&own_items_with_prices(
         &recipe.solutes,
         &recipe.ingredients,

@@ -38,6 +38,7 @@ mod records;
 mod rows;
 mod search;
 mod seed;
+mod settings;
 mod site;
 mod sync_types;
 pub mod tx;
@@ -49,6 +50,7 @@ use rusqlite::Connection;
 
 pub use calibrations::{CalibrationSwitch, CalibrationVersion, scope_words};
 pub use error::{Result, StoreError};
+pub use settings::{CABINET_TEMP_KEY, FREEZER_TEMP_KEY};
 pub use site::{SITE_CODE_KEY, SYNC_URL_KEY};
 pub use sync_types::*;
 pub use types::*;

@@ -274,3 +274,13 @@ fn prices_of_an_own_ingredient_belong_on_it() {
         &["`quay-syrup`", "price_per_kg"],
     );
 }
+
+#[test]
+fn cabinet_above_zero() {
+    check(
+        "cabinet-above-zero.toml",
+        3,
+        18,
+        &["cabinet_temp_c", "between 0 and -60", "12"],
+    );
+}

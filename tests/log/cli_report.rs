@@ -212,3 +212,78 @@ fn text_report_puts_key_figures_first_and_shows_cautions() {
         assert!(text.contains(needle), "missing {needle}");
     }
 }
+
+/// The cabinet `gelu report` reports for: the log's setting, a recipe file's
+/// own over it, and the `--cabinet` flag over both (the workspace's rule).
+#[test]
+fn the_cabinet_comes_from_the_settings_the_recipe_and_the_flag() {
+    let dir = tempfile::tempdir().unwrap();
+    let db = dir.path().join("log.db");
+    {
+        let mut store = gelu::store::Store::open(&db).unwrap();
+        store
+            .set_setting(gelu::store::CABINET_TEMP_KEY, "-11")
+            .unwrap();
+        store
+            .set_setting(gelu::store::FREEZER_TEMP_KEY, "-22")
+            .unwrap();
+    }
+    let plain = format!("{SAMPLES}/lemon-sorbet.toml");
+    let own = dir.path().join("own-cabinet.toml");
+    let text = std::fs::read_to_string(&plain).unwrap();
+    let text = text.replacen("style = ", "cabinet_temp_c = -14.5\nstyle = ", 1);
+    std::fs::write(&own, text).unwrap();
+    let cabinet = |file: &std::path::Path, flags: &[&str]| {
+        let out = gelu()
+            .env_remove("GELU_DB")
+            .arg("--db")
+            .arg(&db)
+            .args(["report", "--json"])
+            .args(flags)
+            .arg(file)
+            .output()
+            .unwrap();
+        assert!(
+            out.status.success(),
+            "{}",
+            String::from_utf8_lossy(&out.stderr)
+        );
+        let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+        (
+            v["cabinet"]["temp_c"].as_f64().unwrap(),
+            v["freezer"]["temp_c"].as_f64().unwrap(),
+        )
+    };
+    let plain = std::path::Path::new(&plain);
+    assert_eq!(cabinet(plain, &[]), (-11.0, -22.0), "the log's settings");
+    assert_eq!(
+        cabinet(&own, &[]),
+        (-14.5, -22.0),
+        "the recipe's own cabinet"
+    );
+    assert_eq!(
+        cabinet(&own, &["--cabinet", "-12", "--freezer", "0F"]).0,
+        -12.0,
+        "the flag over the recipe"
+    );
+    // 0 °F is -17.78 °C (JSON gives temperatures to 0.001 K).
+    assert!((cabinet(plain, &["--freezer", "0F"]).1 + 160.0 / 9.0).abs() < 1e-3);
+    // A prediction recorded with a batch is made for the same cabinet.
+    let out = gelu()
+        .env_remove("GELU_DB")
+        .env("USER", "tester")
+        .arg("--db")
+        .arg(&db)
+        .args(["batch", "new", "--size", "2kg", "--json"])
+        .arg(&own)
+        .output()
+        .unwrap();
+    assert!(
+        out.status.success(),
+        "{}",
+        String::from_utf8_lossy(&out.stderr)
+    );
+    let b: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(b["prediction"]["cabinet"]["temp_c"].as_f64(), Some(-14.5));
+    assert_eq!(b["prediction"]["freezer"]["temp_c"].as_f64(), Some(-22.0));
+}

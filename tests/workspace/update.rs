@@ -937,3 +937,25 @@ fn the_site_code_and_the_hub_are_settings_and_the_password_stays_out() {
     assert!(matches!(&effects[..], [Effect::SaveSettings(saved)]
         if saved.sync_url == "postgresql://kitchen@hub.example/gelu?sslmode=verify-full"));
 }
+
+#[test]
+fn a_recipes_own_cabinet_wins_over_the_settings_and_survives_a_save() {
+    let mut recipe = crate::common::tide_mill_fior_di_latte();
+    recipe.cabinet_temp_c = Some(-14.5);
+    let mut s = gelu::tui::State::new(false);
+    update(
+        &mut s,
+        Action::RecipeLoaded {
+            recipe: recipe.clone(),
+            source: gelu::tui::state::RecipeSource::New,
+        },
+    );
+    assert_eq!(s.settings.cabinet_temp_c, -13.0);
+    let cabinet = s.recipe.analysis.as_ref().map(|a| a.cabinet.temp_c);
+    assert_eq!(cabinet, Ok(-14.5));
+    // Written as a file and read back, the recipe keeps it.
+    let text = gelu::recipe_file::recipe_to_toml(&recipe);
+    let back = gelu::recipe_file::parse_recipe(std::path::Path::new("r.toml"), &text)
+        .unwrap_or_else(|e| panic!("{e}\n{text}"));
+    assert_eq!(back.cabinet_temp_c, Some(-14.5));
+}

@@ -3,6 +3,8 @@
 
 use std::path::PathBuf;
 
+use crate::cli::own::TempArgs;
+
 use crate::batch::MeasurementKind;
 use crate::model::Style;
 
@@ -59,25 +61,7 @@ pub struct Precisions {
 #[derive(Debug, clap::Subcommand)]
 pub enum BatchCommand {
     /// Record a new batch of a recipe scaled to a size; prints its code.
-    New {
-        /// The recipe file (TOML).
-        recipe: PathBuf,
-        /// Batch size: g, kg, or for liqueurs mL or L (5kg, 800g, 1.5L).
-        #[arg(long, value_name = "SIZE")]
-        size: String,
-        /// Who makes it (default: the login name).
-        #[arg(long, value_name = "NAME")]
-        by: Option<String>,
-        /// Supplier lot of an ingredient (or line number), repeatable: --lot sucrose=S-2611.
-        #[arg(long = "lot", value_name = "INGREDIENT=LOT")]
-        lots: Vec<String>,
-        /// A first note.
-        #[arg(long, value_name = "TEXT")]
-        note: Option<String>,
-        /// Print the whole batch as JSON instead of its code.
-        #[arg(long)]
-        json: bool,
-    },
+    New(NewArgs),
     /// List batches, newest first.
     List {
         #[command(flatten)]
@@ -223,4 +207,29 @@ pub enum ExportFormat {
     Jsonl,
     /// One row per batch, for spreadsheets.
     Csv,
+}
+
+/// Arguments of `gelu batch new`.
+#[derive(Debug, clap::Args)]
+pub struct NewArgs {
+    /// The recipe file (TOML).
+    pub recipe: PathBuf,
+    /// Batch size: g, kg, or for liqueurs mL or L (5kg, 800g, 1.5L).
+    #[arg(long, value_name = "SIZE")]
+    pub size: String,
+    /// Who makes it (default: the login name).
+    #[arg(long, value_name = "NAME")]
+    pub by: Option<String>,
+    /// Supplier lot of an ingredient (or line number), repeatable: --lot sucrose=S-2611.
+    #[arg(long = "lot", value_name = "INGREDIENT=LOT")]
+    pub lots: Vec<String>,
+    /// A first note.
+    #[arg(long, value_name = "TEXT")]
+    pub note: Option<String>,
+    /// The cabinet and freezer the prediction is made for.
+    #[command(flatten)]
+    pub temps: TempArgs,
+    /// Print the whole batch as JSON instead of its code.
+    #[arg(long)]
+    pub json: bool,
 }

@@ -12,10 +12,9 @@ use std::process::ExitCode;
 
 use anyhow::{Context, bail};
 
-pub use args::{BatchArgs, BatchCommand, ExportFormat, FilterArgs, Selection};
+pub use args::{BatchArgs, BatchCommand, ExportFormat, FilterArgs, NewArgs, Selection};
 
 use super::db::open_store;
-use crate::analysis::Options;
 use crate::batch::compare::{comparisons, comparisons_json};
 use crate::batch::export::Format;
 use crate::batch::jsonl::batch_json;
@@ -134,20 +133,12 @@ fn recorded_recipe(path: &Path, own: &OwnItems) -> anyhow::Result<(Recipe, Strin
     Ok((parsed, text))
 }
 
-fn new_batch(
-    db: Option<&Path>,
-    recipe: &Path,
-    size: &str,
-    by: &Option<String>,
-    lot_args: &[String],
-    note: Option<&str>,
-    json: bool,
-) -> anyhow::Result<ExitCode> {
-    let size = parse_size(size, None)?;
-    let operator = who(by)?;
-    let lots = lots(lot_args)?;
+fn new_batch(db: Option<&Path>, args: &NewArgs) -> anyhow::Result<ExitCode> {
+    let size = parse_size(&args.size, None)?;
+    let operator = who(&args.by)?;
+    let lots = lots(&args.lots)?;
     let mut store = open_store(db)?;
-    let (parsed, text) = recorded_recipe(recipe, &super::own::own_items_of(&store)?)?;
+    let (parsed, text) = recorded_recipe(&args.recipe, &super::own::own_items_of(&store)?)?;
     let planned = plan_batch_drawn(
         &Plan {
             recipe: &parsed,
@@ -155,15 +146,15 @@ fn new_batch(
             size,
             operator: &operator,
             lots: &lots,
-            note,
+            note: args.note.as_deref(),
             made_at: clock::now(),
         },
         Catalog::builtin(),
-        &Options::default(),
+        &super::own::options_of(Some(&store), &args.temps),
         store.draw_frozen_fraction()?,
     )?;
     let b = store.new_batch(&planned)?;
-    if json {
+    if args.json {
         print_json(&b);
     } else {
         println!("{}", b.code);
@@ -174,14 +165,7 @@ fn new_batch(
 /// Runs `gelu batch`.
 pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
     match &args.command {
-        BatchCommand::New {
-            recipe,
-            size,
-            by,
-            lots,
-            note,
-            json,
-        } => new_batch(db, recipe, size, by, lots, note.as_deref(), *json),
+        BatchCommand::New(new) => new_batch(db, new),
         BatchCommand::List {
             filter: f,
             limit,

@@ -20,8 +20,8 @@ use crate::model::{MassUnit, TempUnit};
 const KEY_TEMP: &str = "workspace.temp_unit";
 const KEY_MASS: &str = "workspace.mass_unit";
 const KEY_SERVING: &str = "workspace.serving_target";
-const KEY_CABINET: &str = "workspace.cabinet_temp_c";
-const KEY_FREEZER: &str = "workspace.freezer_temp_c";
+const KEY_CABINET: &str = crate::store::CABINET_TEMP_KEY;
+const KEY_FREEZER: &str = crate::store::FREEZER_TEMP_KEY;
 const KEY_OPERATOR: &str = "workspace.operator";
 /// Prices per kg by ingredient id, as one JSON object (`{"sucrose":1.15}`).
 const KEY_PRICES: &str = "workspace.prices_per_kg";

@@ -10,7 +10,6 @@ use std::path::{Path, PathBuf};
 
 use anyhow::Context as _;
 
-use crate::analysis::Options;
 use crate::batch::plan::{Plan, plan_batch_drawn};
 use crate::batch::reading::as_recorded;
 use crate::batch::{BatchFilter, LineRef};
@@ -390,7 +389,7 @@ fn start_batch(store: &mut Store, request: BatchRequest) -> anyhow::Result<Actio
             made_at: clock::now(),
         },
         Catalog::builtin(),
-        &Options::default(),
+        &request.options,
         store.draw_frozen_fraction()?,
     )?;
     let batch = store.new_batch(&new)?;

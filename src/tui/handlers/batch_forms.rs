@@ -245,6 +245,7 @@ pub fn submit(state: &mut State, form: &Form) -> Result<Vec<Effect>, String> {
                 recipe: state.recipe.recipe.clone(),
                 recipe_text,
                 size,
+                options: state.analysis_options(),
                 operator: value(form, 1).to_string(),
                 lots,
                 note: String::new(),

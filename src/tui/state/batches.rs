@@ -135,6 +135,8 @@ pub struct BatchRequest {
     pub recipe_text: Option<String>,
     /// Batch size: a mass, or a volume at 20 °C.
     pub size: Amount,
+    /// The analysis options of the prediction (the settings' cabinet and freezer).
+    pub options: crate::analysis::Options,
     /// Who makes it.
     pub operator: String,
     /// Lot of each line, in line order (may be empty).

@@ -409,6 +409,8 @@ impl State {
             at_temps_c: Vec::new(),
             cabinet_temp_c: self.settings.cabinet_temp_c,
             freezer_temp_c: self.settings.freezer_temp_c,
+            cabinet_override_c: None,
+            freezer_override_c: None,
             temp_unit: self.settings.temp_unit,
         }
     }
