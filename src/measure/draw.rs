@@ -27,14 +27,15 @@ pub fn draw_frozen_fraction_from_setting(value: Option<&str>) -> f64 {
 }
 
 /// The temperature (°C) at which `frozen_fraction` (0..1) of the recipe's water
-/// is frozen; `None` when the mix never freezes that far above −60 °C.
+/// is frozen; `None` when the mix never freezes that far above −60 °C, and for
+/// liqueurs and spirits, which are not drawn from an ice-cream freezer.
 /// Uses the same freezing curve as the serving temperature.
 pub fn predicted_draw_temp_c(
     recipe: &Recipe,
     catalog: &Catalog,
     frozen_fraction: f64,
 ) -> Result<Option<f64>, AnalysisError> {
-    if !(frozen_fraction > 0.0 && frozen_fraction < 1.0) {
+    if recipe.style.is_drink() || !(frozen_fraction > 0.0 && frozen_fraction < 1.0) {
         return Ok(None);
     }
     let options = Options {

@@ -644,6 +644,16 @@ fn an_ice_cream_mix_draws_where_the_trade_draws() {
     assert!(p.for_kind("ph").is_none());
 }
 
+#[test]
+fn a_liqueur_has_no_draw_temperature() {
+    // A liqueur is not drawn from an ice-cream freezer: no draw prediction, even
+    // though half its water freezes somewhere above -60 °C.
+    let mut r = recipe(&[("spirit-40-vol", 50.0), ("sucrose", 25.0), ("water", 25.0)]);
+    r.style = gelu::model::Style::Liqueur;
+    let draw = predicted_draw_temp_c(&r, Catalog::builtin(), DEFAULT_DRAW_FROZEN_FRACTION);
+    assert_eq!(draw, Ok(None));
+}
+
 // ------------------------------------------------------------ statistics
 
 fn at(day: u32) -> DateTime<Utc> {
