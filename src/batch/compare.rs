@@ -12,7 +12,8 @@ pub fn predicted(batch: &Batch, kind: MeasurementKind) -> Option<f64> {
         .and_then(serde_json::Value::as_f64)
 }
 
-/// One predicted kind of a batch: its prediction and latest reading.
+/// One predicted kind of a batch: its prediction and latest reading that stands
+/// (a struck reading does not count).
 #[derive(Debug, Clone, Copy, PartialEq)]
 pub struct Comparison {
     /// What.
@@ -43,7 +44,7 @@ pub fn comparisons(batch: &Batch) -> Vec<Comparison> {
                 .measurements
                 .iter()
                 .rev()
-                .find(|m| m.kind == kind)
+                .find(|m| m.kind == kind && !m.struck)
                 .map(|m| m.value),
         })
         .collect()
@@ -59,13 +60,17 @@ pub struct Reading<'a> {
 }
 
 impl Reading<'_> {
-    /// Measured minus predicted (in the kind's unit).
+    /// Measured minus predicted (in the kind's unit); none for a struck reading.
     pub fn difference(&self) -> Option<f64> {
+        if self.measurement.struck {
+            return None;
+        }
         self.predicted.map(|p| self.measurement.value - p)
     }
 }
 
-/// Every reading of the batch, oldest first, each with its prediction.
+/// Every reading of the batch, struck ones too, in the order recorded, each with
+/// its prediction.
 pub fn readings(batch: &Batch) -> Vec<Reading<'_>> {
     batch
         .measurements

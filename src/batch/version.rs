@@ -1,12 +1,25 @@
 //! A recipe version's identity: the SHA-256 of its exact text, so that the same
-//! version is recognised wherever it was saved.
+//! version is recognised wherever it was saved (and the one SHA-256 writer, which
+//! [`super::seal`] uses too).
 
 use sha2::{Digest, Sha256};
 
 /// `sha256:` followed by the hex SHA-256 of `text`.
 pub fn content_hash(text: &str) -> String {
-    let digest = Sha256::digest(text.as_bytes());
-    let hex: String = digest.iter().map(|b| format!("{b:02x}")).collect();
+    sha256_of(&[text.as_bytes()])
+}
+
+/// `sha256:` followed by the hex SHA-256 of `parts`, one after the other.
+pub fn sha256_of(parts: &[&[u8]]) -> String {
+    let mut hasher = Sha256::new();
+    for part in parts {
+        hasher.update(part);
+    }
+    let hex: String = hasher
+        .finalize()
+        .iter()
+        .map(|b| format!("{b:02x}"))
+        .collect();
     format!("sha256:{hex}")
 }
 

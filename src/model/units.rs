@@ -21,6 +21,11 @@ pub const ML_PER_US_QUART: f64 = 32.0 * ML_PER_US_FL_OZ;
 /// Millilitres in one US gallon (231 cubic inches; exact).
 pub const ML_PER_US_GALLON: f64 = 3_785.411_784;
 
+/// The largest amount gelu takes, in g or mL: a thousand tonnes, or a million
+/// litres. Anything larger is a typing slip, and sums of such amounts stay far
+/// from overflowing.
+pub const MAX_AMOUNT: f64 = 1.0e9;
+
 /// How temperatures are shown and read (JSON is always °C).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
 pub enum TempUnit {

@@ -217,6 +217,8 @@ pub enum Effect {
         value: f64,
         /// Who measured.
         by: String,
+        /// Why, when the batch is signed off (the reading goes on its trail).
+        reason: Option<String>,
     },
     /// Add a note to a batch.
     AddNote {
@@ -226,6 +228,8 @@ pub enum Effect {
         text: String,
         /// Who wrote it.
         by: String,
+        /// Why, when the batch is signed off (the note goes on its trail).
+        reason: Option<String>,
     },
     /// Finalise (sign off) a batch.
     Finalize {

@@ -375,7 +375,9 @@ fn check_form(state: &State, form: &mut super::state::Form) {
     use super::state::FormPurpose as F;
     match &form.purpose {
         F::Ingredient(_) | F::Solute(_) => own_items::check_form(state, form),
-        F::Batch | F::Measurement(_) | F::Amend(_) => batch_forms::check_form(state, form),
+        F::Batch | F::Measurement(_) | F::TrailNote(_) | F::Amend(_) => {
+            batch_forms::check_form(state, form)
+        }
     }
 }
 
@@ -384,7 +386,9 @@ fn submit_form(state: &mut State, mut form: super::state::Form) -> Vec<Effect> {
     check_form(state, &mut form);
     let outcome = match &form.purpose {
         F::Ingredient(_) | F::Solute(_) => own_items::submit(state, &form),
-        F::Batch | F::Measurement(_) | F::Amend(_) => batch_forms::submit(state, &form),
+        F::Batch | F::Measurement(_) | F::TrailNote(_) | F::Amend(_) => {
+            batch_forms::submit(state, &form)
+        }
     };
     match outcome {
         Ok(effects) => effects,

@@ -7,7 +7,11 @@ mod store_common;
 
 mod batch_cli;
 mod batch_processes;
+mod batch_trail;
+mod cli_edges;
 mod cli_report;
+mod db_check;
+mod import_refusals;
 mod store_import;
 mod store_migrate;
 mod store_open;

@@ -183,13 +183,35 @@ impl Services {
                 kind,
                 value,
                 by,
+                reason,
             } => {
-                s.add_measurement(&code, kind, value, &by)?;
-                changed(code, "Measurement recorded.")
+                let trail = reason.is_some();
+                s.add_measurement(&code, kind, value, &by, reason.as_deref())?;
+                changed(
+                    code,
+                    if trail {
+                        "Measurement recorded on the amendment trail."
+                    } else {
+                        "Measurement recorded."
+                    },
+                )
             }
-            Effect::AddNote { code, text, by } => {
-                s.add_note(&code, &text, &by)?;
-                changed(code, "Note added.")
+            Effect::AddNote {
+                code,
+                text,
+                by,
+                reason,
+            } => {
+                let trail = reason.is_some();
+                s.add_note(&code, &text, &by, reason.as_deref())?;
+                changed(
+                    code,
+                    if trail {
+                        "Note added on the amendment trail."
+                    } else {
+                        "Note added."
+                    },
+                )
             }
             Effect::Finalize { code, by } => {
                 s.finalize(&code, &by)?;

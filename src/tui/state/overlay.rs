@@ -95,6 +95,8 @@ pub enum FormPurpose {
     Batch,
     /// A measurement for the batch with this code.
     Measurement(String),
+    /// A note, with its reason, for the signed-off batch with this code.
+    TrailNote(String),
     /// An amendment of the batch with this code.
     Amend(String),
 }
