@@ -502,13 +502,15 @@ pub fn apply_trail(first: &mut Batch) -> Result<()> {
 /// the trail undone, newest change first (the trail itself is kept). Refused when
 /// the trail contradicts the record, or when a reading or note is marked struck
 /// though no amendment strikes it.
-pub fn original_record(batch: &Batch) -> Result<Batch> {
-    let mut first = batch.clone();
-    for (i, a) in batch.amendments.iter().enumerate().rev() {
+pub fn original_record(batch: Batch) -> Result<Batch> {
+    let mut first = batch;
+    let trail = std::mem::take(&mut first.amendments);
+    for (i, a) in trail.iter().enumerate().rev() {
         for (j, c) in a.changes.iter().enumerate().rev() {
             revert(c, &mut first).map_err(at(i + 1, j + 1))?;
         }
     }
+    first.amendments = trail;
     if let Some(i) = first.measurements.iter().position(|m| m.struck) {
         return Err(Invalid(format!(
             "reading {} is marked struck, but no amendment strikes it",
@@ -640,7 +642,7 @@ mod tests {
             reason: "corrections".into(),
             changes,
         }];
-        let first = original_record(&amended).unwrap();
+        let first = original_record(amended.clone()).unwrap();
         assert_eq!(
             Batch {
                 amendments: Vec::new(),
@@ -676,12 +678,12 @@ mod tests {
             reason: "r".into(),
             changes: vec![lie],
         }];
-        let err = original_record(&shown).unwrap_err().0;
+        let err = original_record(shown).unwrap_err().0;
         assert!(err.contains("amendment 1, change 1"), "{err}");
         // A struck mark no amendment explains.
         let mut marked = b.clone();
         marked.measurements[0].struck = true;
-        let err = original_record(&marked).unwrap_err().0;
+        let err = original_record(marked).unwrap_err().0;
         assert!(err.contains("reading 1 is marked struck"), "{err}");
         // Striking twice, or a reading that is not there.
         let strike = changes_for(&[Edit::StrikeReading(1)], &b).unwrap();

@@ -47,7 +47,7 @@ pub fn read_line<'a>(
 ) -> Result<(Batch, &'a str), Invalid> {
     let text = text.trim_start_matches('\u{feff}').trim_end();
     let (batch, prediction) = read_batch(text)?;
-    let first = super::validate::first_written(&batch, recipes, catalog)?;
+    let first = super::validate::first_written(batch, recipes, catalog)?;
     Ok((first, prediction))
 }
 

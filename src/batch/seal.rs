@@ -10,42 +10,119 @@
 //! of its trail. Numbers are written as JSON numbers (the shortest text that reads
 //! back exactly), times as stored, `-0` as `0` (the database keeps no sign on zero).
 
-use serde_json::json;
+use std::io::Write;
 
-use super::types::Batch;
-use super::version::sha256_of;
-use crate::model::time::time_text;
+use chrono::{DateTime, Utc};
+use serde::Serialize;
+
+use super::types::{Amendment, Batch};
+use super::version::Hasher;
+use crate::model::time::serialize_time;
+
+/// A number as sealed: `-0` as `0`.
+fn n(x: f64) -> f64 {
+    x + 0.0
+}
+
+// What a seal covers, written as JSON in this order. The order of the fields is
+// part of every seal ever made: never reorder, rename or drop one.
+#[derive(Serialize)]
+struct Sealed<'a> {
+    code: &'a str,
+    recipe: &'a str,
+    recipe_version: u32,
+    recipe_hash: &'a str,
+    #[serde(serialize_with = "serialize_time")]
+    made_at: DateTime<Utc>,
+    size_g: f64,
+    operator: &'a str,
+    finalized_at: Option<String>,
+    finalized_by: Option<&'a str>,
+    lines: Vec<SealedLine<'a>>,
+    measurements: Vec<SealedReading<'a>>,
+    notes: Vec<SealedNote<'a>>,
+    amendments: &'a [Amendment],
+}
+
+#[derive(Serialize)]
+struct SealedLine<'a> {
+    ingredient: &'a str,
+    planned_g: f64,
+    actual_g: Option<f64>,
+    lot: &'a str,
+}
+
+#[derive(Serialize)]
+struct SealedReading<'a> {
+    kind: &'static str,
+    value: f64,
+    #[serde(serialize_with = "serialize_time")]
+    taken_at: DateTime<Utc>,
+    by: &'a str,
+}
+
+#[derive(Serialize)]
+struct SealedNote<'a> {
+    text: &'a str,
+    #[serde(serialize_with = "serialize_time")]
+    written_at: DateTime<Utc>,
+    by: &'a str,
+}
 
 /// The seal of `first` (the record as first written, with its trail in
 /// `amendments`) over its first `amendments` entries, with its prediction as the
 /// stored JSON text: `sha256:` and 64 hex digits.
 pub fn seal(first: &Batch, amendments: usize, prediction_json: &str) -> String {
-    let n = |x: f64| x + 0.0;
-    let text = json!({
-        "code": first.code,
-        "recipe": first.recipe.recipe,
-        "recipe_version": first.recipe.version,
-        "recipe_hash": first.recipe.content_hash,
-        "made_at": time_text(&first.made_at),
-        "size_g": n(first.size_g),
-        "operator": first.operator,
-        "finalized_at": first.finalized_at.as_ref().map(time_text),
-        "finalized_by": first.finalized_by,
-        "lines": first.lines.iter().map(|l| json!({
-            "ingredient": l.ingredient, "planned_g": n(l.planned_g),
-            "actual_g": l.actual_g.map(n), "lot": l.lot,
-        })).collect::<Vec<_>>(),
-        "measurements": first.measurements.iter().map(|m| json!({
-            "kind": m.kind.as_str(), "value": n(m.value),
-            "taken_at": time_text(&m.taken_at), "by": m.by,
-        })).collect::<Vec<_>>(),
-        "notes": first.notes.iter().map(|m| json!({
-            "text": m.text, "written_at": time_text(&m.written_at), "by": m.by,
-        })).collect::<Vec<_>>(),
-        "amendments": &first.amendments[..amendments.min(first.amendments.len())],
-    })
-    .to_string();
-    sha256_of(&[text.as_bytes(), b"\n", prediction_json.as_bytes()])
+    let sealed = Sealed {
+        code: &first.code,
+        recipe: &first.recipe.recipe,
+        recipe_version: first.recipe.version,
+        recipe_hash: &first.recipe.content_hash,
+        made_at: first.made_at,
+        size_g: n(first.size_g),
+        operator: &first.operator,
+        finalized_at: first
+            .finalized_at
+            .as_ref()
+            .map(crate::model::time::time_text),
+        finalized_by: first.finalized_by.as_deref(),
+        lines: first
+            .lines
+            .iter()
+            .map(|l| SealedLine {
+                ingredient: &l.ingredient,
+                planned_g: n(l.planned_g),
+                actual_g: l.actual_g.map(n),
+                lot: &l.lot,
+            })
+            .collect(),
+        measurements: first
+            .measurements
+            .iter()
+            .map(|m| SealedReading {
+                kind: m.kind.as_str(),
+                value: n(m.value),
+                taken_at: m.taken_at,
+                by: &m.by,
+            })
+            .collect(),
+        notes: first
+            .notes
+            .iter()
+            .map(|m| SealedNote {
+                text: &m.text,
+                written_at: m.written_at,
+                by: &m.by,
+            })
+            .collect(),
+        amendments: &first.amendments[..amendments.min(first.amendments.len())],
+    };
+    let mut hasher = Hasher::default();
+    // Writing into a hasher never fails, and these values always serialise.
+    let _ = serde_json::to_writer(&mut hasher, &sealed);
+    let _ = hasher.write_all(b"\n");
+    let _ = hasher.write_all(prediction_json.as_bytes());
+    hasher.finish()
 }
 
 #[cfg(test)]

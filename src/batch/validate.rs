@@ -240,12 +240,18 @@ pub fn check_sign_off(made_at: &DateTime<Utc>, at: &DateTime<Utc>, by: &str) -> 
     Ok(())
 }
 
-/// A recipe version: a name, a number from 1, and a hash that is its text's.
+/// A recipe version's name and number (from 1). Whether its hash is its text's is
+/// [`Recipes::check`]'s question, asked once per text.
 pub fn check_version(v: &RecipeVersion) -> Result<()> {
     check_name("the recipe's name", &v.recipe)?;
     if v.version == 0 {
         return Err(Invalid("a recipe version is numbered from 1".into()));
     }
+    Ok(())
+}
+
+/// A recipe version's hash must be its text's.
+fn check_hash(v: &RecipeVersion) -> Result<()> {
     if content_hash(&v.text) != v.content_hash {
         return Err(Invalid(format!(
             "the recipe text of `{}` version {} does not match its recorded hash {}",
@@ -342,22 +348,34 @@ pub fn recipe_of(v: &RecipeVersion) -> Result<Recipe> {
         .map_err(|e| Invalid(format!("its recipe text cannot be read: {e}")))
 }
 
-/// Recipe texts already read, by content hash, so that the thousands of batches
-/// of one version in an import are checked against it without reading it again.
+/// A recipe text as checked: the text, and the recipe it holds or why not.
+type Checked = (String, std::result::Result<Recipe, String>);
+
+/// Recipe texts already checked, by content hash, so that the thousands of batches
+/// of one version in an import are checked against it without hashing and reading
+/// it again.
 #[derive(Debug, Default)]
-pub struct Recipes(HashMap<String, std::result::Result<Recipe, String>>);
+pub struct Recipes(HashMap<String, Checked>);
 
 impl Recipes {
-    /// Checks that the record's recipe text reads and knows every line's ingredient.
+    /// Checks that the record's recipe text matches its hash, reads, and knows
+    /// every line's ingredient.
     pub fn check(&mut self, batch: &Batch, catalog: &Catalog) -> Result<()> {
         let v = &batch.recipe;
-        let recipe = self
+        let known = self
             .0
-            .entry(v.content_hash.clone())
-            .or_insert_with(|| recipe_of(v).map_err(|e| e.0));
-        match recipe {
-            Ok(recipe) => check_ingredients(&batch.lines, recipe, catalog),
-            Err(why) => Err(Invalid(why.clone())),
+            .get(&v.content_hash)
+            .is_some_and(|(text, _)| *text == v.text);
+        if !known {
+            check_hash(v)?;
+            let recipe = recipe_of(v).map_err(|e| e.0);
+            self.0
+                .insert(v.content_hash.clone(), (v.text.clone(), recipe));
+        }
+        match self.0.get(&v.content_hash).map(|(_, recipe)| recipe) {
+            Some(Ok(recipe)) => check_ingredients(&batch.lines, recipe, catalog),
+            Some(Err(why)) => Err(Invalid(why.clone())),
+            None => Err(Invalid("its recipe text could not be checked".into())),
         }
     }
 }
@@ -365,9 +383,9 @@ impl Recipes {
 /// The record as first written, once it is checked as a record the command line
 /// could have made ([`check_record`], its recipe and ingredients): its current
 /// values with the trail undone, which refuses a trail that contradicts them.
-pub fn first_written(batch: &Batch, recipes: &mut Recipes, catalog: &Catalog) -> Result<Batch> {
-    check_record(batch)?;
-    recipes.check(batch, catalog)?;
+pub fn first_written(batch: Batch, recipes: &mut Recipes, catalog: &Catalog) -> Result<Batch> {
+    check_record(&batch)?;
+    recipes.check(&batch, catalog)?;
     super::amend::original_record(batch)
 }
 

@@ -11,16 +11,46 @@ pub fn content_hash(text: &str) -> String {
 
 /// `sha256:` followed by the hex SHA-256 of `parts`, one after the other.
 pub fn sha256_of(parts: &[&[u8]]) -> String {
-    let mut hasher = Sha256::new();
+    let mut hasher = Hasher::default();
     for part in parts {
-        hasher.update(part);
+        hasher.0.update(part);
     }
-    let hex: String = hasher
-        .finalize()
-        .iter()
-        .map(|b| format!("{b:02x}"))
-        .collect();
-    format!("sha256:{hex}")
+    hasher.finish()
+}
+
+/// A SHA-256 that text is written into (as into a file), so that a long text need
+/// not be built in memory first.
+#[derive(Default)]
+pub struct Hasher(Sha256);
+
+impl Hasher {
+    /// `sha256:` followed by the hex SHA-256 of everything written.
+    pub fn finish(self) -> String {
+        hex("sha256:", &self.0.finalize())
+    }
+}
+
+impl std::io::Write for Hasher {
+    fn write(&mut self, buf: &[u8]) -> std::io::Result<usize> {
+        self.0.update(buf);
+        Ok(buf.len())
+    }
+
+    fn flush(&mut self) -> std::io::Result<()> {
+        Ok(())
+    }
+}
+
+/// `prefix` followed by `bytes` in lower-case hex.
+fn hex(prefix: &str, bytes: &[u8]) -> String {
+    const DIGITS: &[u8; 16] = b"0123456789abcdef";
+    let mut out = String::with_capacity(prefix.len() + 2 * bytes.len());
+    out.push_str(prefix);
+    for b in bytes {
+        out.push(char::from(DIGITS[usize::from(b >> 4)]));
+        out.push(char::from(DIGITS[usize::from(b & 15)]));
+    }
+    out
 }
 
 #[cfg(test)]

@@ -64,7 +64,7 @@ type Item = (usize, std::result::Result<Record, String>);
 fn record(batch: Batch, recipes: &mut Recipes) -> std::result::Result<Record, String> {
     let prediction_json = batch.prediction.to_string();
     let first = first_written(
-        &Batch {
+        Batch {
             prediction: Value::Null,
             ..batch
         },
