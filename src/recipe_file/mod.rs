@@ -20,7 +20,7 @@ use std::path::PathBuf;
 
 pub use edit::{Rewritten, rewrite};
 pub use read::{parse_recipe, parse_recipe_with, read_recipe};
-pub use write::recipe_to_toml;
+pub use write::{check_reads_back, recipe_to_checked_toml, recipe_to_toml};
 
 /// A recipe file that cannot be read, with where and why.
 #[derive(Debug, Clone, PartialEq)]

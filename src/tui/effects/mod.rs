@@ -17,7 +17,7 @@ use crate::clock;
 use crate::model::Amount;
 use crate::model::Recipe;
 use crate::model::time::{DayEnd, parse_date_bound};
-use crate::recipe_file::{parse_recipe, read_recipe, recipe_to_toml};
+use crate::recipe_file::{check_reads_back, parse_recipe, read_recipe, recipe_to_checked_toml};
 use crate::store::{CustomItem, Store};
 
 use super::action::{Action, Effect};
@@ -283,6 +283,12 @@ fn loaded_file(path: &Path, recipe: Recipe, text: String) -> Action {
 
 fn save_file(path: &Path, original: Option<&str>, recipe: Recipe) -> anyhow::Result<Action> {
     let out = crate::recipe_file::rewrite(path, original, &recipe);
+    check_reads_back(&recipe, &out.text).map_err(|why| {
+        anyhow::anyhow!(
+            "{} was not saved: {why}; the file is unchanged",
+            path.display()
+        )
+    })?;
     let tmp = path.with_extension("toml.saving");
     std::fs::write(&tmp, &out.text)
         .with_context(|| format!("could not write {}; the file is unchanged", tmp.display()))?;
@@ -308,7 +314,8 @@ fn save_file(path: &Path, original: Option<&str>, recipe: Recipe) -> anyhow::Res
 }
 
 fn save_version(store: &mut Store, recipe: Recipe) -> anyhow::Result<Action> {
-    let text = recipe_to_toml(&recipe);
+    let text = recipe_to_checked_toml(&recipe)
+        .map_err(|why| anyhow::anyhow!("{} was not saved: {why}", recipe.name))?;
     let v = store.save_recipe_version(&recipe.name, &text)?;
     Ok(Action::Saved {
         message: format!(
@@ -350,10 +357,10 @@ fn load_page(store: &Store, query: BatchQuery) -> anyhow::Result<BatchPage> {
 }
 
 fn start_batch(store: &mut Store, request: BatchRequest) -> anyhow::Result<Action> {
-    let text = request
-        .recipe_text
-        .clone()
-        .unwrap_or_else(|| recipe_to_toml(&request.recipe));
+    let text = match &request.recipe_text {
+        Some(text) => text.clone(),
+        None => recipe_to_checked_toml(&request.recipe).map_err(anyhow::Error::msg)?,
+    };
     let lots: Vec<(LineRef, String)> = request
         .lots
         .iter()
