@@ -6,6 +6,7 @@ mod common;
 
 mod cautions;
 mod effects;
+mod keep_work;
 mod keymap;
 mod pty;
 mod snapshots;

@@ -563,6 +563,7 @@ fn open_detail(s: &mut gelu::tui::State, finalized: bool) {
             comparisons: Vec::new(),
             measurements: Vec::new(),
             notes: Vec::new(),
+            trail: Vec::new(),
         })),
     );
 }

@@ -133,6 +133,9 @@ pub struct RecipeState {
     pub redo: Vec<Recipe>,
     /// The analysis of `recipe`, or why there is none.
     pub analysis: Result<Analysis, String>,
+    /// What to do once the save under way goes through ("save first" answered to
+    /// a question); dropped if the save fails or is backed out of.
+    pub after_save: Option<AfterSave>,
 }
 
 impl RecipeState {
@@ -321,6 +324,7 @@ impl State {
                 undo: Vec::new(),
                 redo: Vec::new(),
                 analysis: Err(String::new()),
+                after_save: None,
             },
             ingredients: IngredientsState::default(),
             batches: BatchesState {
