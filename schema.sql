@@ -343,3 +343,53 @@ BEGIN SELECT RAISE(ABORT, 'a sync conflict is kept as found and decided once'); 
 CREATE TABLE sync_decisions_waiting (
     conflict_id INTEGER PRIMARY KEY REFERENCES sync_conflicts(id)
 ) STRICT;
+
+-- migration 5
+-- A final record keeps what it showed. After sign-off, new readings and notes are
+-- entries on the record's amendment trail (dated, signed, with a reason), never new
+-- rows here: these tables keep what was recorded before sign-off. (Logs written
+-- before this version may hold later rows; they stay, with their own times.) An
+-- import writes whole records, drafts and signed-off ones alike, in one transaction,
+-- and lifts these two triggers as it lifts batch_lines_insert_open (see
+-- src/store/guards.rs).
+CREATE TRIGGER measurements_insert_open BEFORE INSERT ON measurements
+WHEN (SELECT status FROM batches WHERE id = NEW.batch_id) = 'final'
+BEGIN
+    SELECT RAISE(ABORT, 'a final batch record takes new readings on its amendment trail');
+END;
+CREATE TRIGGER batch_notes_insert_open BEFORE INSERT ON batch_notes
+WHEN (SELECT status FROM batches WHERE id = NEW.batch_id) = 'final'
+BEGIN
+    SELECT RAISE(ABORT, 'a final batch record takes new notes on its amendment trail');
+END;
+
+-- A recipe's versions are immutable, and so is the name they were saved under: a
+-- renamed recipe would make every batch of it show another name.
+CREATE TRIGGER recipes_named_for_good BEFORE UPDATE ON recipes
+WHEN EXISTS (SELECT 1 FROM recipe_versions WHERE recipe_id = OLD.id)
+BEGIN
+    SELECT RAISE(ABORT, 'a recipe with saved versions is never renamed; save it under a new name instead');
+END;
+CREATE TRIGGER recipes_never_deleted BEFORE DELETE ON recipes
+WHEN EXISTS (SELECT 1 FROM recipe_versions WHERE recipe_id = OLD.id)
+BEGIN
+    SELECT RAISE(ABORT, 'a recipe with saved versions is never deleted');
+END;
+
+-- Seals: the SHA-256 of a signed-off record as gelu wrote it (see src/batch/seal.rs),
+-- one at sign-off (amendments = 0) and one at each entry on its trail (amendments =
+-- the entries it covers). `gelu db check` recomputes them to tell which records were
+-- changed behind gelu's back. Records signed off before this version are sealed as
+-- they stand when the log is upgraded.
+CREATE TABLE batch_seals (
+    batch_id    INTEGER NOT NULL REFERENCES batches(id),
+    amendments  INTEGER NOT NULL CHECK (amendments >= 0),
+    sealed_at   TEXT NOT NULL,
+    hash        TEXT NOT NULL,
+    PRIMARY KEY (batch_id, amendments)
+) STRICT, WITHOUT ROWID;
+
+CREATE TRIGGER batch_seals_append_only_update BEFORE UPDATE ON batch_seals
+BEGIN SELECT RAISE(ABORT, 'a seal is never changed'); END;
+CREATE TRIGGER batch_seals_append_only_delete BEFORE DELETE ON batch_seals
+BEGIN SELECT RAISE(ABORT, 'a seal is never deleted'); END;

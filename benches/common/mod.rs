@@ -87,6 +87,7 @@ pub fn synthetic(i: usize, recipes: &[RecipeVersion]) -> Batch {
         text: text.join(" "),
         written_at: at,
         by: format!("cook{}", i % 12),
+        struck: false,
     };
     let amended = i % 500 == 3;
     Batch {
@@ -108,6 +109,7 @@ pub fn synthetic(i: usize, recipes: &[RecipeVersion]) -> Batch {
             value: -6.0 - (i % 20) as f64 / 10.0,
             taken_at: at,
             by: format!("cook{}", i % 12),
+            struck: false,
         }],
         notes: vec![note],
         amendments: if amended {

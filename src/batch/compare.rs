@@ -256,8 +256,14 @@ fn prediction(
 }
 
 /// The latest reading of `kind`.
+/// The latest reading of `kind` that stands (a reading struck out by an
+/// amendment does not count).
 fn latest(batch: &Batch, kind: MeasurementKind) -> Option<&Measurement> {
-    batch.measurements.iter().rev().find(|m| m.kind == kind)
+    batch
+        .measurements
+        .iter()
+        .rev()
+        .find(|m| m.kind == kind && !m.struck)
 }
 
 /// Likely causes when `measured` is far from `reference` for one batch; empty when not.
@@ -399,14 +405,17 @@ pub struct Reading<'a> {
 }
 
 impl Reading<'_> {
-    /// Measured minus predicted (in the kind's unit).
+    /// Measured minus predicted (in the kind's unit); none for a struck reading.
     pub fn difference(&self) -> Option<f64> {
+        if self.measurement.struck {
+            return None;
+        }
         self.predicted.map(|p| self.measurement.value - p)
     }
 }
 
-/// Every reading of the batch, oldest first, each with its kind's prediction
-/// from `comparisons`.
+/// Every reading of the batch, struck ones too, in the order recorded, each with
+/// its kind's prediction from `comparisons`.
 pub fn readings<'a>(batch: &'a Batch, comparisons: &[Comparison]) -> Vec<Reading<'a>> {
     batch
         .measurements

@@ -1,6 +1,6 @@
 //! Writing batch records out for people and other programs: JSON Lines (lossless;
-//! import reads it back) or CSV (for spreadsheets), one record at a time, to any
-//! writer the caller opens.
+//! import reads it back) or CSV (for spreadsheets, one row per event of a record;
+//! see [`super::csv`]), one record at a time, to any writer the caller opens.
 
 use std::io::{self, Write};
 
@@ -12,7 +12,7 @@ use super::{csv, jsonl};
 pub enum Format {
     /// One JSON object per batch per line.
     Jsonl,
-    /// One row per batch, with a header.
+    /// One row per event of a record, with a header.
     Csv,
 }
 
@@ -28,6 +28,6 @@ pub fn write_start(format: Format, out: &mut dyn Write) -> io::Result<()> {
 pub fn write_record(format: Format, batch: &Batch, out: &mut dyn Write) -> io::Result<()> {
     match format {
         Format::Jsonl => writeln!(out, "{}", jsonl::batch_json(batch)),
-        Format::Csv => writeln!(out, "{}", csv::row(batch)),
+        Format::Csv => out.write_all(csv::rows(batch).as_bytes()),
     }
 }

@@ -25,23 +25,30 @@ pub fn batch_json(b: &Batch) -> Value {
         "status": b.status.as_str(),
         "finalized_at": b.finalized_at.as_ref().map(t),
         "finalized_by": b.finalized_by,
-        "notes": b.notes.iter().map(|n| json!({
-            "text": n.text, "written_at": t(&n.written_at), "by": n.by,
-        })).collect::<Vec<_>>(),
+        "notes": b.notes,
         "lines": b.lines.iter().map(|l| json!({
             "ingredient": l.ingredient, "planned_g": l.planned_g,
             "actual_g": l.actual_g, "lot": l.lot,
         })).collect::<Vec<_>>(),
-        "measurements": b.measurements.iter().map(|m| json!({
-            "kind": m.kind.as_str(), "value": m.value, "unit": m.kind.unit(),
-            "taken_at": t(&m.taken_at), "by": m.by,
-        })).collect::<Vec<_>>(),
-        "amendments": b.amendments.iter().map(|a| json!({
-            "amended_at": t(&a.amended_at), "by": a.by, "reason": a.reason,
-            "changes": a.changes,
-        })).collect::<Vec<_>>(),
+        "measurements": b.measurements,
+        "amendments": b.amendments,
         "prediction": b.prediction,
     })
+}
+
+/// Reads one line of an import: one batch's JSON object (a byte-order mark before
+/// it and a Windows line end after it are not part of it), checked as a record the
+/// command line could have made ([`super::validate::first_written`]). Returns the
+/// record as first written (its trail undone) and its prediction's JSON text.
+pub fn read_line<'a>(
+    text: &'a str,
+    recipes: &mut super::validate::Recipes,
+    catalog: &crate::catalog::Catalog,
+) -> Result<(Batch, &'a str), Invalid> {
+    let text = text.trim_start_matches('\u{feff}').trim_end();
+    let (batch, prediction) = read_batch(text)?;
+    let first = super::validate::first_written(batch, recipes, catalog)?;
+    Ok((first, prediction))
 }
 
 /// A batch's JSON object as read: the public keys, with the prediction kept
@@ -110,9 +117,11 @@ fn explain(text: &str, plain: serde_json::Error) -> String {
     }
 }
 
-/// Reads one batch from its public JSON object, checking every field; a refusal
-/// names the key at fault. Returns the batch with `prediction` left null, and the
-/// prediction as the JSON text it was in `text`.
+/// Reads one batch from its public JSON object, checking every field's type (and
+/// that a reading's unit is its kind's); a refusal names the key at fault. Whether
+/// the record as a whole could have been made is [`super::validate`]'s question.
+/// Returns the batch with `prediction` left null, and the prediction as the JSON
+/// text it was in `text`.
 pub fn read_batch(text: &str) -> Result<(Batch, &str), Invalid> {
     if !text.trim_start().starts_with('{') {
         return Err(bad("a batch record must be a JSON object".into()));
@@ -123,18 +132,6 @@ pub fn read_batch(text: &str) -> Result<(Batch, &str), Invalid> {
     let prediction = wire.prediction.get();
     if !prediction.starts_with('{') {
         return Err(bad("`prediction` must be a JSON object".into()));
-    }
-    let derived = match (wire.status, wire.amendments.is_empty()) {
-        (Status::Draft, _) => Status::Draft,
-        (_, true) => Status::Final,
-        (_, false) => Status::Amended,
-    };
-    if derived != wire.status {
-        return Err(bad(format!(
-            "`status` is {} but the record reads as {} (amended means final with amendments)",
-            wire.status.as_str(),
-            derived.as_str()
-        )));
     }
     let batch = Batch {
         code: wire.code,

@@ -1,10 +1,15 @@
 //! The batch domain, pure: what a batch record is ([`types`]), planning one from a
 //! recipe ([`plan`]), correcting it by amendments ([`amend`]), checking it
-//! ([`validate`]), setting its readings against its prediction ([`compare`]), and
-//! its public JSON and CSV forms ([`jsonl`], [`csv`], [`export`]), and records as
-//! sites share them, each with a stable identity ([`shared`]). No SQL, files or
-//! clock here: the store keeps these records, the command line and the workspace
-//! show them, and times are passed in.
+//! ([`validate`]), sealing it at sign-off ([`seal`]), setting its readings against
+//! its prediction ([`compare`]), its public JSON and CSV forms ([`jsonl`],
+//! [`csv`], [`export`]), and records as sites share them, each with a stable
+//! identity ([`shared`]). No SQL, files or clock here: the store keeps these
+//! records, the command line and the workspace show them, and times are passed in.
+//!
+//! The rule of the record: once signed off, a record keeps what it showed. New
+//! readings and notes, and every correction, go on its amendment trail as dated,
+//! signed entries with a reason; the record as first written plus its trail is the
+//! record as it stands ([`amend::apply_trail`], [`amend::original_record`]).
 
 pub mod amend;
 pub mod compare;
@@ -13,6 +18,7 @@ pub mod export;
 pub mod jsonl;
 pub mod plan;
 pub mod reading;
+pub mod seal;
 pub mod shared;
 mod types;
 pub mod validate;

@@ -147,6 +147,25 @@ impl MeasurementKind {
         }
     }
 
+    /// The values a reading of this kind can take, in its unit (wider than any
+    /// kitchen or still sees, so that only nonsense is refused).
+    pub fn plausible(self) -> std::ops::RangeInclusive<f64> {
+        match self {
+            MeasurementKind::Brix
+            | MeasurementKind::AbvPct
+            | MeasurementKind::TitratableAcidityPct => 0.0..=100.0,
+            MeasurementKind::Ph => 0.0..=14.0,
+            MeasurementKind::OverrunPct => 0.0..=1000.0,
+            MeasurementKind::DrawTempC
+            | MeasurementKind::ServingTempC
+            | MeasurementKind::FreezingPointC
+            | MeasurementKind::FreezingPointH
+            | MeasurementKind::PasteuriseTempC => -273.15..=1000.0,
+            MeasurementKind::MassG => 0.0..=crate::model::units::MAX_AMOUNT,
+            MeasurementKind::PasteuriseTimeS => 0.0..=1.0e7,
+        }
+    }
+
     /// The key of the prediction this kind is compared with in a batch's
     /// recorded prediction, if gelu predicts the kind (`brix` and `draw_temp_c`
     /// are recorded since this version; older batches lack them).
@@ -192,34 +211,99 @@ impl<'de> Deserialize<'de> for MeasurementKind {
     }
 }
 
-/// One measurement taken on a batch. Read from its JSON object (the key `unit` is
-/// implied by the kind and not read).
-#[derive(Debug, Clone, PartialEq, Deserialize)]
+impl Serialize for MeasurementKind {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        s.serialize_str(self.as_str())
+    }
+}
+
+fn is_false(b: &bool) -> bool {
+    !*b
+}
+
+/// One measurement taken on a batch. Its JSON object is `{kind, value, unit,
+/// taken_at, by}`, plus `struck: true` once an amendment has struck it out; a
+/// `unit` other than the kind's is refused when read.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+#[serde(try_from = "ReadingJson", into = "ReadingJson")]
 pub struct Measurement {
     /// What was measured.
     pub kind: MeasurementKind,
     /// The value, in `kind.unit()`.
     pub value: f64,
     /// When it was taken.
-    #[serde(deserialize_with = "crate::model::time::deserialize_time")]
     pub taken_at: DateTime<Utc>,
     /// Who took it.
     pub by: String,
+    /// Whether an amendment has struck it out (it stays on the record, marked).
+    pub struck: bool,
 }
 
-/// A note on a batch (deviations, corrective actions, sensory remarks).
-#[derive(Debug, Clone, PartialEq, Deserialize)]
+/// A reading's public JSON object.
+#[derive(Serialize, Deserialize)]
+struct ReadingJson {
+    kind: MeasurementKind,
+    value: f64,
+    unit: String,
+    #[serde(
+        serialize_with = "crate::model::time::serialize_time",
+        deserialize_with = "crate::model::time::deserialize_time"
+    )]
+    taken_at: DateTime<Utc>,
+    by: String,
+    #[serde(default, skip_serializing_if = "is_false")]
+    struck: bool,
+}
+
+impl TryFrom<ReadingJson> for Measurement {
+    type Error = String;
+    fn try_from(r: ReadingJson) -> Result<Self, String> {
+        super::validate::check_unit(r.kind, &r.unit).map_err(|e| e.0)?;
+        Ok(Measurement {
+            kind: r.kind,
+            value: r.value,
+            taken_at: r.taken_at,
+            by: r.by,
+            struck: r.struck,
+        })
+    }
+}
+
+impl From<Measurement> for ReadingJson {
+    fn from(m: Measurement) -> Self {
+        ReadingJson {
+            kind: m.kind,
+            value: m.value,
+            unit: m.kind.unit().to_owned(),
+            taken_at: m.taken_at,
+            by: m.by,
+            struck: m.struck,
+        }
+    }
+}
+
+/// A note on a batch (deviations, corrective actions, sensory remarks). Its JSON
+/// object is `{text, written_at, by}`, plus `struck: true` once struck out.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct Note {
     /// The text.
     pub text: String,
     /// When it was written.
-    #[serde(deserialize_with = "crate::model::time::deserialize_time")]
+    #[serde(
+        serialize_with = "crate::model::time::serialize_time",
+        deserialize_with = "crate::model::time::deserialize_time"
+    )]
     pub written_at: DateTime<Utc>,
     /// Who wrote it.
     pub by: String,
+    /// Whether an amendment has struck it out (it stays on the record, marked).
+    #[serde(default, skip_serializing_if = "is_false")]
+    pub struck: bool,
 }
 
-/// One correction inside an amendment; `old` is what it replaced.
+/// One correction inside an amendment; `old` is what it replaced. Readings and
+/// notes are named by their 1-based position on the record, which never changes:
+/// a struck entry keeps its place, marked.
 #[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 #[serde(tag = "field", rename_all = "kebab-case")]
 pub enum Change {
@@ -252,13 +336,53 @@ pub enum Change {
         /// Value after.
         new: String,
     },
+    /// A reading taken after sign-off: `{field, kind, value, unit, taken_at, by}`.
+    AddReading(Measurement),
+    /// A note written after sign-off: `{field, text, written_at, by}`.
+    AddNote(Note),
+    /// A reading struck out (it stays on the record, marked struck).
+    StrikeReading {
+        /// The reading's 1-based position.
+        reading: usize,
+        /// The reading as it stood.
+        old: Measurement,
+    },
+    /// A reading corrected.
+    ReplaceReading {
+        /// The reading's 1-based position.
+        reading: usize,
+        /// The reading as it stood.
+        old: Measurement,
+        /// The reading as corrected.
+        new: Measurement,
+    },
+    /// A note struck out (it stays on the record, marked struck).
+    StrikeNote {
+        /// The note's 1-based position.
+        note: usize,
+        /// The note as it stood.
+        old: Note,
+    },
+    /// A note corrected.
+    ReplaceNote {
+        /// The note's 1-based position.
+        note: usize,
+        /// The note as it stood.
+        old: Note,
+        /// The note as corrected.
+        new: Note,
+    },
 }
 
-/// A correction of a batch record: a new entry that references it.
-#[derive(Debug, Clone, PartialEq, Deserialize)]
+/// A correction of a batch record: a new entry that references it. Readings and
+/// notes added after sign-off are entries like any other.
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
 pub struct Amendment {
     /// When it was made.
-    #[serde(deserialize_with = "crate::model::time::deserialize_time")]
+    #[serde(
+        serialize_with = "crate::model::time::serialize_time",
+        deserialize_with = "crate::model::time::deserialize_time"
+    )]
     pub amended_at: DateTime<Utc>,
     /// Who made it.
     pub by: String,
@@ -289,9 +413,10 @@ pub struct Batch {
     pub finalized_by: Option<String>,
     /// The lines (as amended).
     pub lines: Vec<BatchLine>,
-    /// Measurements, oldest first.
+    /// Every reading, in the order recorded: those taken before sign-off, then
+    /// those added on the trail; struck ones stay, marked.
     pub measurements: Vec<Measurement>,
-    /// Notes, oldest first.
+    /// Every note, in the same order and on the same terms as the readings.
     pub notes: Vec<Note>,
     /// The amendment trail, oldest first.
     pub amendments: Vec<Amendment>,

@@ -1,13 +1,56 @@
 //! A recipe version's identity: the SHA-256 of its exact text, so that the same
-//! version is recognised wherever it was saved.
+//! version is recognised wherever it was saved (and the one SHA-256 writer, which
+//! [`super::seal`] uses too).
 
 use sha2::{Digest, Sha256};
 
 /// `sha256:` followed by the hex SHA-256 of `text`.
 pub fn content_hash(text: &str) -> String {
-    let digest = Sha256::digest(text.as_bytes());
-    let hex: String = digest.iter().map(|b| format!("{b:02x}")).collect();
-    format!("sha256:{hex}")
+    sha256_of(&[text.as_bytes()])
+}
+
+/// `sha256:` followed by the hex SHA-256 of `parts`, one after the other.
+pub fn sha256_of(parts: &[&[u8]]) -> String {
+    let mut hasher = Hasher::default();
+    for part in parts {
+        hasher.0.update(part);
+    }
+    hasher.finish()
+}
+
+/// A SHA-256 that text is written into (as into a file), so that a long text need
+/// not be built in memory first.
+#[derive(Default)]
+pub struct Hasher(Sha256);
+
+impl Hasher {
+    /// `sha256:` followed by the hex SHA-256 of everything written.
+    pub fn finish(self) -> String {
+        hex("sha256:", &self.0.finalize())
+    }
+}
+
+impl std::io::Write for Hasher {
+    fn write(&mut self, buf: &[u8]) -> std::io::Result<usize> {
+        self.0.update(buf);
+        Ok(buf.len())
+    }
+
+    fn flush(&mut self) -> std::io::Result<()> {
+        Ok(())
+    }
+}
+
+/// `prefix` followed by `bytes` in lower-case hex.
+fn hex(prefix: &str, bytes: &[u8]) -> String {
+    const DIGITS: &[u8; 16] = b"0123456789abcdef";
+    let mut out = String::with_capacity(prefix.len() + 2 * bytes.len());
+    out.push_str(prefix);
+    for b in bytes {
+        out.push(char::from(DIGITS[usize::from(b >> 4)]));
+        out.push(char::from(DIGITS[usize::from(b & 15)]));
+    }
+    out
 }
 
 #[cfg(test)]

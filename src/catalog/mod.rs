@@ -65,8 +65,8 @@ pub enum CatalogError {
     /// The id is not kebab-case.
     #[error("the id `{0}` must be lower-case letters, digits and dashes (like `house-syrup`)")]
     BadId(String),
-    /// A number that must be positive is not.
-    #[error("{field} of `{id}` must be a positive number, not {value}")]
+    /// A number that must be positive is not, or is beyond any real value.
+    #[error("{field} of `{id}` must be a positive number up to {max}, not {value}")]
     NotPositive {
         /// The item's id.
         id: String,
@@ -74,6 +74,8 @@ pub enum CatalogError {
         field: &'static str,
         /// The value given.
         value: f64,
+        /// The largest value taken.
+        max: f64,
     },
     /// A composition part is negative or not finite.
     #[error("{field} of `{id}` must be between 0 and 100, not {value}")]
@@ -84,6 +86,26 @@ pub enum CatalogError {
         field: String,
         /// The value given.
         value: f64,
+    },
+    /// A number outside its range (or not a number).
+    #[error("{field} of `{id}` must be a number from 0 to {max}, not {value}")]
+    BadRange {
+        /// The item's id.
+        id: String,
+        /// Which field.
+        field: String,
+        /// The value given.
+        value: f64,
+        /// The largest value taken.
+        max: f64,
+    },
+    /// A name holds a control character.
+    #[error("the name of `{id}` holds the control character {found}; names are plain text")]
+    ControlCharacter {
+        /// The item's id.
+        id: String,
+        /// The character, as U+XXXX.
+        found: String,
     },
     /// The composition does not add up to 100.
     #[error(
@@ -239,6 +261,10 @@ impl Catalog {
         if !matches!(spirit::parse(&i.id), Some(Ok(_))) {
             validate_id(&i.id)?;
         }
+        validate_name(&i.id, &i.name)?;
+        for allergen in &i.allergens {
+            validate_name(&i.id, allergen)?;
+        }
         let parts = [
             ("water_pct", i.water_pct),
             ("fat_pct", i.fat_pct),
@@ -265,13 +291,7 @@ impl Catalog {
                 total,
             });
         }
-        if !(i.density_g_ml > 0.0 && i.density_g_ml.is_finite()) {
-            return Err(CatalogError::NotPositive {
-                id: i.id.clone(),
-                field: "density_g_ml",
-                value: i.density_g_ml,
-            });
-        }
+        positive(&i.id, "density_g_ml", i.density_g_ml, MAX_DENSITY_G_ML)?;
         Ok(())
     }
 }
@@ -304,30 +324,75 @@ pub fn validate_id(id: &str) -> Result<(), CatalogError> {
     }
 }
 
-/// Checks a user's solute: id, molar mass, dissociation factor and Norrish K.
+/// The largest molar mass taken (g/mol): above the largest food polymers.
+pub const MAX_MOLAR_MASS_G_MOL: f64 = 1.0e7;
+/// The largest dissociation (van 't Hoff) factor taken.
+pub const MAX_DISSOCIATION: f64 = 10.0;
+/// The largest Norrish K taken (published ones are below 20).
+pub const MAX_NORRISH_K: f64 = 1000.0;
+/// The largest relative sweetness taken (sucrose = 100; intense sweeteners reach
+/// some hundred thousand).
+pub const MAX_SWEETNESS: f64 = 1.0e6;
+/// The largest density taken (g/mL): denser than any food.
+pub const MAX_DENSITY_G_ML: f64 = 25.0;
+
+/// A number that must lie above zero and at most `max`, finite.
+pub fn positive(id: &str, field: &'static str, value: f64, max: f64) -> Result<(), CatalogError> {
+    if value > 0.0 && value <= max {
+        Ok(())
+    } else {
+        Err(CatalogError::NotPositive {
+            id: id.to_string(),
+            field,
+            value,
+            max,
+        })
+    }
+}
+
+/// A number that must lie from zero to `max`, finite.
+fn zero_or_more(id: &str, field: &str, value: f64, max: f64) -> Result<(), CatalogError> {
+    if (0.0..=max).contains(&value) {
+        Ok(())
+    } else {
+        Err(CatalogError::BadRange {
+            id: id.to_string(),
+            field: field.to_string(),
+            value,
+            max,
+        })
+    }
+}
+
+/// Checks a user's solute: id, name, molar mass, dissociation factor, Norrish K
+/// and sweetness, each a number the reader takes back.
 pub fn validate_solute(s: &Solute) -> Result<(), CatalogError> {
     validate_id(&s.id)?;
-    let positive = [
-        ("molar_mass_g_mol", s.molar_mass_g_mol),
-        ("dissociation", s.dissociation),
-    ];
-    for (field, value) in positive {
-        if !(value > 0.0 && value.is_finite()) {
-            return Err(CatalogError::NotPositive {
-                id: s.id.clone(),
-                field,
-                value,
-            });
-        }
+    validate_name(&s.id, &s.name)?;
+    positive(
+        &s.id,
+        "molar_mass_g_mol",
+        s.molar_mass_g_mol,
+        MAX_MOLAR_MASS_G_MOL,
+    )?;
+    positive(&s.id, "dissociation", s.dissociation, MAX_DISSOCIATION)?;
+    if let crate::thermo::binary::WaterModel::Ideal { norrish_k } = s.model {
+        zero_or_more(&s.id, "norrish_k", norrish_k, MAX_NORRISH_K)?;
     }
-    if let crate::thermo::binary::WaterModel::Ideal { norrish_k } = s.model
-        && !(norrish_k >= 0.0 && norrish_k.is_finite())
-    {
-        return Err(CatalogError::BadPart {
-            id: s.id.clone(),
-            field: "norrish_k".into(),
-            value: norrish_k,
-        });
+    if let Some(sweetness) = s.sweetness {
+        zero_or_more(&s.id, "sweetness", sweetness, MAX_SWEETNESS)?;
     }
     Ok(())
+}
+
+/// A display name: plain text, without control characters (escape sequences,
+/// line breaks), so that it shows as itself wherever it is printed.
+pub fn validate_name(id: &str, name: &str) -> Result<(), CatalogError> {
+    match name.chars().find(|c| c.is_control()) {
+        Some(c) => Err(CatalogError::ControlCharacter {
+            id: id.to_string(),
+            found: format!("U+{:04X}", u32::from(c)),
+        }),
+        None => Ok(()),
+    }
 }

@@ -104,9 +104,9 @@ pub struct IngredientTable {
     /// Dissolved solutes by id (mass %).
     #[serde(default)]
     pub solutes_pct: BTreeMap<String, f64>,
-    /// Density (g/mL); 1 when absent.
+    /// Density (g/mL), with its place in the file; 1 when absent.
     #[serde(default)]
-    pub density_g_ml: Option<f64>,
+    pub density_g_ml: Option<Spanned<f64>>,
     /// Allergens.
     #[serde(default)]
     pub allergens: Vec<String>,
@@ -149,7 +149,7 @@ impl IngredientTable {
             protein_pct: self.protein_pct,
             other_solids_pct: self.other_solids_pct,
             solutes_pct: self.solutes_pct.clone(),
-            density_g_ml: self.density_g_ml.unwrap_or(1.0),
+            density_g_ml: self.density_g_ml.as_ref().map_or(1.0, |d| *d.get_ref()),
             allergens: self.allergens.clone(),
             source: self
                 .source

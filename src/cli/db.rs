@@ -4,8 +4,11 @@
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
+use std::io::Write;
+
 use anyhow::Context;
 
+use crate::report::inert::inert;
 use crate::store::{Store, StoreError, open};
 
 /// Arguments of `gelu db`.
@@ -21,7 +24,8 @@ pub struct DbArgs {
 pub enum DbCommand {
     /// Print the batch log's file path.
     Path,
-    /// Run SQLite's integrity and foreign-key checks (exit 1 on a problem).
+    /// Check the log: SQLite's integrity and foreign-key checks, every protection of
+    /// the schema, and every signed-off record against its seal (exit 1 on a problem).
     Check,
     /// Write a consistent copy to PATH (safe while others write).
     Backup {
@@ -45,16 +49,29 @@ pub fn open_store(db: Option<&Path>) -> anyhow::Result<Store> {
         None => Store::open_default()?,
     };
     if let Some(notice) = store.migration().notice(store.path()) {
-        eprintln!("gelu: {notice}");
+        eprintln!("gelu: {}", inert(&notice));
     }
     Ok(store)
+}
+
+/// Opens the batch log for a command that only reads: as [`open_store`] does, or,
+/// when the log cannot be written, read-only as it is.
+pub fn open_for_reading(db: Option<&Path>) -> anyhow::Result<Store> {
+    match open_store(db) {
+        Err(e) if matches!(e.downcast_ref(), Some(StoreError::ReadOnly { .. })) => {
+            let path = resolve_path(db)?;
+            Store::open_read_only(&path)?
+                .ok_or_else(|| anyhow::anyhow!("{} holds no batch log yet", path.display()))
+        }
+        other => other,
+    }
 }
 
 /// Runs `gelu db`.
 pub fn run(args: &DbArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
     match &args.command {
         DbCommand::Path => {
-            println!("{}", resolve_path(db)?.display());
+            writeln!(std::io::stdout(), "{}", resolve_path(db)?.display())?;
             Ok(ExitCode::SUCCESS)
         }
         DbCommand::Check => {
@@ -65,19 +82,29 @@ pub fn run(args: &DbArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
                     path.display()
                 );
             }
-            let problems = match Store::open(&path) {
+            let opened = match Store::open(&path) {
+                Err(StoreError::ReadOnly { .. }) => Store::open_read_only(&path).and_then(|s| {
+                    s.ok_or_else(|| {
+                        StoreError::Invalid(format!("{} holds no batch log yet", path.display()))
+                    })
+                }),
+                other => other,
+            };
+            let problems = match opened {
                 Ok(store) => store.check()?,
                 Err(e @ (StoreError::Corrupt { .. } | StoreError::NotADatabase { .. })) => {
                     vec![e.to_string()]
                 }
                 Err(e) => return Err(e.into()),
             };
+            let mut out = std::io::stdout().lock();
+            let shown = inert(&path.display().to_string()).into_owned();
             if problems.is_empty() {
-                println!("{}: ok", path.display());
+                writeln!(out, "{shown}: ok")?;
                 Ok(ExitCode::SUCCESS)
             } else {
                 for p in &problems {
-                    println!("{}: {p}", path.display());
+                    writeln!(out, "{shown}: {}", inert(p))?;
                 }
                 eprintln!(
                     "gelu: {} problem(s) found. Do not write to this file; copy it somewhere safe \
@@ -92,7 +119,7 @@ pub fn run(args: &DbArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
             store
                 .backup_to(path)
                 .with_context(|| format!("backing up {}", store.path().display()))?;
-            println!("{}", path.display());
+            writeln!(std::io::stdout(), "{}", path.display())?;
             Ok(ExitCode::SUCCESS)
         }
     }

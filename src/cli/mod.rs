@@ -1,6 +1,9 @@
 //! The command line: clap definitions (the raw flags as typed) and the
 //! subcommands, which resolve them into typed options for the library.
-//! Only this module and `main` decide exit codes.
+//! Only this module and `main` decide exit codes: 0 done, 1 done with refusals
+//! (a file that could not be reported, an import line refused, a check that found
+//! a problem), 2 an error, 141 output into a closed pipe (quietly). Text from
+//! files and records is shown inert ([`crate::report::inert`]).
 
 mod balance;
 mod batch;
@@ -53,7 +56,29 @@ pub enum Command {
 }
 
 fn workspace(db: Option<PathBuf>, file: Option<PathBuf>) -> anyhow::Result<ExitCode> {
+    use std::io::IsTerminal;
+    if !std::io::stdin().is_terminal() || !std::io::stdout().is_terminal() {
+        anyhow::bail!(
+            "the workspace needs a terminal (its input and output are not one here): run it in a \
+             terminal window or over SSH with a terminal; for a recipe's figures as plain text, \
+             use `gelu report FILE`, and for the batch log `gelu batch`"
+        );
+    }
     crate::tui::run(&crate::tui::Launch { db, file }).map(|()| ExitCode::SUCCESS)
+}
+
+/// The exit code of a command whose reader went away (output into a closed pipe,
+/// as `gelu batch list | head -1` does): 128 + SIGPIPE, what a shell reports for
+/// the tools that end on that signal. Nothing is printed.
+const CLOSED_PIPE: u8 = 141;
+
+/// Whether an error comes from writing into a pipe nobody reads any more.
+fn closed_pipe(e: &anyhow::Error) -> bool {
+    e.chain().any(|cause| {
+        cause
+            .downcast_ref::<std::io::Error>()
+            .is_some_and(|io| io.kind() == std::io::ErrorKind::BrokenPipe)
+    })
 }
 
 /// Parses the command line, runs it, and maps the outcome to an exit code.
@@ -74,8 +99,9 @@ pub fn run() -> ExitCode {
     };
     match outcome {
         Ok(code) => code,
+        Err(e) if closed_pipe(&e) => ExitCode::from(CLOSED_PIPE),
         Err(e) => {
-            eprintln!("gelu: {e:#}");
+            eprintln!("gelu: {}", crate::report::inert::inert(&format!("{e:#}")));
             ExitCode::from(2)
         }
     }

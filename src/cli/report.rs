@@ -12,6 +12,7 @@ use crate::model::TempUnit;
 use crate::model::units::{parse_freezing_temp, parse_share};
 use crate::model::{OwnItems, Recipe};
 use crate::recipe_file::{parse_recipe, read_recipe_using};
+use crate::report::inert::inert;
 use crate::report::json::write_analysis_json;
 use crate::report::text::report_text;
 use crate::samples::SAMPLE_RECIPES;
@@ -143,7 +144,7 @@ pub fn run(args: &ReportArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
                 Ok(bytes) => out.write_all(&bytes)?,
                 Err(message) => {
                     out.flush()?;
-                    eprintln!("gelu: {message}");
+                    eprintln!("gelu: {}", inert(&message));
                     failed += 1;
                 }
             }

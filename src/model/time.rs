@@ -19,6 +19,19 @@ pub fn time_text(t: &DateTime<Utc>) -> String {
     t.to_rfc3339_opts(SecondsFormat::Millis, true)
 }
 
+/// A time as the text forms show it: `2026-12-01 23:10 UTC`.
+pub fn minute_text(t: &DateTime<Utc>) -> String {
+    t.format("%Y-%m-%d %H:%M UTC").to_string()
+}
+
+/// Writes a time as stored, for serde's `serialize_with`.
+pub fn serialize_time<S: serde::Serializer>(
+    t: &DateTime<Utc>,
+    s: S,
+) -> std::result::Result<S::Ok, S::Error> {
+    s.serialize_str(&time_text(t))
+}
+
 /// Parses an RFC 3339 time (any offset) into UTC.
 pub fn parse_time(text: &str) -> Result<DateTime<Utc>, String> {
     DateTime::parse_from_rfc3339(text)

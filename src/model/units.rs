@@ -21,6 +21,24 @@ pub const ML_PER_US_QUART: f64 = 32.0 * ML_PER_US_FL_OZ;
 /// Millilitres in one US gallon (231 cubic inches; exact).
 pub const ML_PER_US_GALLON: f64 = 3_785.411_784;
 
+/// The largest amount gelu takes, in g or mL: a thousand tonnes, or a million
+/// litres. Anything larger is a typing slip, and sums of such amounts stay far
+/// from overflowing.
+pub const MAX_AMOUNT: f64 = 1.0e9;
+
+/// Refuses an amount beyond [`MAX_AMOUNT`] (the reason, for a message).
+pub fn check_amount(amount: Amount) -> Result<(), String> {
+    let (value, limit) = match amount {
+        Amount::Grams(g) => (g, "1000 t"),
+        Amount::Millilitres(ml) => (ml, "a million litres"),
+    };
+    if value <= MAX_AMOUNT {
+        Ok(())
+    } else {
+        Err(format!("is more than gelu takes: amounts go up to {limit}"))
+    }
+}
+
 /// How temperatures are shown and read (JSON is always °C).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
 pub enum TempUnit {
@@ -275,12 +293,7 @@ pub fn parse_amount(text: &str, bare: Option<MassUnit>) -> Result<Amount, String
         });
     }
     let amount = total.ok_or_else(|| format!("`{t}` is not an amount"))?;
-    let value = match amount {
-        Amount::Grams(v) | Amount::Millilitres(v) => v,
-    };
-    if !value.is_finite() {
-        return Err(format!("`{t}` is too large to be an amount"));
-    }
+    check_amount(amount).map_err(|why| format!("`{t}` {why}"))?;
     Ok(amount)
 }
 
@@ -413,6 +426,12 @@ mod tests {
         assert!(
             parse_amount("1e308 kg", g).is_err(),
             "overflows to infinity"
+        );
+        let absurd = parse_amount("2000000 kg", g).unwrap_err();
+        assert!(absurd.contains("1000 t"), "{absurd}");
+        assert!(
+            parse_amount("1000000 kg", g).is_ok(),
+            "a thousand tonnes is the limit"
         );
     }
 

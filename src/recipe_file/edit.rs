@@ -11,7 +11,9 @@ use toml_edit::{ArrayOfTables, DocumentMut, Item, Table, Value};
 
 use crate::model::{Amount, Line, OwnItems, Recipe};
 use crate::recipe_file::read::parse_recipe_leaning_on;
-use crate::recipe_file::{Expect, SaveError, parse_recipe, recipe_to_toml, save_text};
+use crate::recipe_file::{
+    Expect, SaveError, check_reads_back, parse_recipe, recipe_to_toml, save_text,
+};
 
 use super::write_balance::{RULE_KEYS, balance_tables, is_own, rule_of_line, rule_pairs};
 
@@ -57,8 +59,9 @@ pub fn rewrite(path: &Path, original: Option<&str>, recipe: &Recipe) -> Rewritte
 }
 
 /// Saves `recipe` to `path` as [`rewrite`] gives it, never half written (see
-/// [`save_text`]): a failure, or a file that is not what `expect` says, leaves
-/// the old file as it was.
+/// [`save_text`]) and never as a text the reader would refuse
+/// ([`check_reads_back`]): a failure, or a file that is not what `expect` says,
+/// leaves the old file as it was.
 pub fn save_recipe(
     path: &Path,
     original: Option<&str>,
@@ -66,6 +69,10 @@ pub fn save_recipe(
     expect: Expect<'_>,
 ) -> Result<Rewritten, SaveError> {
     let out = rewrite(path, original, recipe);
+    check_reads_back(recipe, &out.text).map_err(|why| SaveError {
+        path: path.to_path_buf(),
+        reason: format!("it was not saved: {why}"),
+    })?;
     save_text(path, expect, &out.text)?;
     Ok(out)
 }

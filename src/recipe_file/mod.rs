@@ -30,7 +30,7 @@ pub use read::{
     parse_recipe, parse_recipe_using, parse_recipe_with, read_recipe, read_recipe_using,
 };
 pub use save::{Expect, SaveError, save_text};
-pub use write::{own_items_toml, recipe_to_toml};
+pub use write::{check_reads_back, own_items_toml, recipe_to_checked_toml, recipe_to_toml};
 
 /// A recipe file that cannot be read, with where and why.
 #[derive(Debug, Clone, PartialEq)]

@@ -54,7 +54,7 @@ struct SoluteDoc {
     #[serde(default)]
     norrish_k: Option<Spanned<f64>>,
     #[serde(default)]
-    sweetness: Option<f64>,
+    sweetness: Option<Spanned<f64>>,
     #[serde(default)]
     source: Option<String>,
 }
@@ -236,6 +236,16 @@ fn parse(
     if name.is_empty() {
         return Err(ctx.err(doc.name.span(), "the recipe `name` must not be empty"));
     }
+    if let Err(e) = crate::catalog::validate_name(&name, &name) {
+        let found = match e {
+            CatalogError::ControlCharacter { found, .. } => found,
+            other => other.to_string(),
+        };
+        return Err(ctx.err(
+            doc.name.span(),
+            format!("the recipe `name` holds the control character {found}; a name is plain text"),
+        ));
+    }
     let style = match &doc.style {
         None => Style::default(),
         Some(s) => Style::parse(s.get_ref()).ok_or_else(|| {
@@ -267,6 +277,17 @@ fn parse(
         .iter()
         .map(|s| solute_from_doc(&ctx, s.get_ref()))
         .collect::<Result<Vec<_>, _>>()?;
+    for table in &doc.ingredient {
+        if let Some(d) = &table.get_ref().density_g_ml {
+            in_range(
+                &ctx,
+                d,
+                "density_g_ml (g/mL)",
+                false,
+                crate::catalog::MAX_DENSITY_G_ML,
+            )?;
+        }
+    }
     let ingredients = doc
         .ingredient
         .iter()
@@ -402,39 +423,67 @@ fn catalog_error_id(e: &CatalogError) -> &str {
         CatalogError::DuplicateId(id) | CatalogError::BadId(id) => id,
         CatalogError::NotPositive { id, .. }
         | CatalogError::BadPart { id, .. }
+        | CatalogError::BadRange { id, .. }
+        | CatalogError::ControlCharacter { id, .. }
         | CatalogError::NotHundred { id, .. } => id,
         CatalogError::UnknownSolute { ingredient, .. } => ingredient,
     }
 }
 
-fn finite_positive(ctx: &Ctx, v: &Spanned<f64>, what: &str) -> Result<f64, RecipeFileError> {
+/// A number above zero (or from zero, with `zero`) up to `max`, or the error at it.
+fn in_range(
+    ctx: &Ctx,
+    v: &Spanned<f64>,
+    what: &str,
+    zero: bool,
+    max: f64,
+) -> Result<f64, RecipeFileError> {
     let x = *v.get_ref();
-    if x > 0.0 && x.is_finite() {
+    let low_ok = if zero { x >= 0.0 } else { x > 0.0 };
+    if low_ok && x <= max {
         Ok(x)
+    } else if zero {
+        Err(ctx.err(
+            v.span(),
+            format!("{what} must be a number from 0 to {max}, not {x}"),
+        ))
     } else {
         Err(ctx.err(
             v.span(),
-            format!("{what} must be a positive number, not {x}"),
+            format!("{what} must be a positive number up to {max}, not {x}"),
         ))
     }
 }
 
 fn solute_from_doc(ctx: &Ctx, s: &SoluteDoc) -> Result<Solute, RecipeFileError> {
-    let molar_mass = finite_positive(ctx, &s.molar_mass_g_mol, "molar_mass_g_mol (g/mol)")?;
-    let dissociation = finite_positive(
+    use crate::catalog::{MAX_DISSOCIATION, MAX_MOLAR_MASS_G_MOL, MAX_NORRISH_K, MAX_SWEETNESS};
+    let molar_mass = in_range(
+        ctx,
+        &s.molar_mass_g_mol,
+        "molar_mass_g_mol (g/mol)",
+        false,
+        MAX_MOLAR_MASS_G_MOL,
+    )?;
+    let dissociation = in_range(
         ctx,
         &s.dissociation,
         "dissociation (the van 't Hoff factor i, 1 for sugars, 2 for table salt)",
+        false,
+        MAX_DISSOCIATION,
     )?;
     let norrish_k = match &s.norrish_k {
         None => 0.0,
-        Some(k) => {
-            let v = *k.get_ref();
-            if !(v >= 0.0 && v.is_finite()) {
-                return Err(ctx.err(k.span(), format!("norrish_k must be zero or more, not {v}")));
-            }
-            v
-        }
+        Some(k) => in_range(ctx, k, "norrish_k", true, MAX_NORRISH_K)?,
+    };
+    let sweetness = match &s.sweetness {
+        None => None,
+        Some(v) => Some(in_range(
+            ctx,
+            v,
+            "sweetness (sucrose = 100)",
+            true,
+            MAX_SWEETNESS,
+        )?),
     };
     Ok(Solute {
         id: s.id.get_ref().clone(),
@@ -443,13 +492,26 @@ fn solute_from_doc(ctx: &Ctx, s: &SoluteDoc) -> Result<Solute, RecipeFileError> 
         molar_mass_g_mol: molar_mass,
         dissociation,
         model: WaterModel::Ideal { norrish_k },
-        sweetness: s.sweetness,
+        sweetness,
         solubility_g_per_100g_water_0c: None,
         source: s
             .source
             .clone()
             .unwrap_or_else(|| "the recipe file's own solute".into()),
     })
+}
+
+/// The unit a line's amount is written in.
+fn unit_of(doc: &LineDoc) -> &'static str {
+    if doc.kg.is_some() {
+        "kg"
+    } else if doc.ml.is_some() {
+        "mL"
+    } else if doc.l.is_some() {
+        "L"
+    } else {
+        "g"
+    }
 }
 
 /// Turns a number in a line's unit into an [`Amount`].
@@ -494,8 +556,15 @@ fn line_from_doc(
             format!("the amount of `{id}` must be a finite number, zero or more, not {v}"),
         ));
     }
+    let amount = make(v);
+    crate::model::units::check_amount(amount).map_err(|why| {
+        ctx.err(
+            value.span(),
+            format!("the amount of `{id}`, {v} {}, {why}", unit_of(doc)),
+        )
+    })?;
     Ok(Line {
         ingredient: id.clone(),
-        amount: make(v),
+        amount,
     })
 }

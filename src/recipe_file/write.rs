@@ -1,6 +1,7 @@
 //! Writing a recipe as a fresh TOML file in the format [`super::parse_recipe`]
-//! reads (for a new file, or when a file's own layout cannot be kept), what
-//! it asks balancing included.
+//! reads (for a new file, or when a file's own layout cannot be kept), what it
+//! asks balancing included, and the guard every save goes through: nothing is
+//! written that the reader would refuse.
 
 use crate::model::{Amount, Ingredient, Recipe, Solute};
 use crate::thermo::binary::WaterModel;
@@ -127,6 +128,31 @@ fn own_items_with_prices(
         }
     }
     out
+}
+
+/// Whether `text`, written for `recipe`, is one the reader takes back: the values
+/// of its own solutes and ingredients and its amounts are checked first (so that
+/// the reason names the value, as `sweetness of house-polyol ...`), then the text
+/// itself is read. Every save calls this before it writes anything.
+pub fn check_reads_back(recipe: &Recipe, text: &str) -> Result<(), String> {
+    crate::catalog::Catalog::builtin()
+        .with_additions(&recipe.solutes, &recipe.ingredients)
+        .map_err(|e| e.to_string())?;
+    for l in &recipe.lines {
+        crate::model::units::check_amount(l.amount)
+            .map_err(|why| format!("the amount of `{}` {why}", l.ingredient))?;
+    }
+    super::parse_recipe(std::path::Path::new(&recipe.name), text)
+        .map(drop)
+        .map_err(|e| e.to_string())
+}
+
+/// [`recipe_to_toml`], refused with the reason when the reader would not take the
+/// text back ([`check_reads_back`]).
+pub fn recipe_to_checked_toml(recipe: &Recipe) -> Result<String, String> {
+    let text = recipe_to_toml(recipe);
+    check_reads_back(recipe, &text)?;
+    Ok(text)
 }
 
 /// A key as TOML: bare when it can be, quoted otherwise.

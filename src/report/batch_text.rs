@@ -1,37 +1,34 @@
 //! A batch record as plain text for people: the whole record with its readings set
-//! against the prediction, and one line per batch for a list. (JSON and CSV forms
-//! are the batch domain's, in [`crate::batch`].)
+//! against the prediction, its notes and its amendment trail (readings and notes
+//! numbered as amendments name them; struck ones kept, marked), and one line per
+//! batch for a list. Text from the record is shown inert. (JSON and CSV forms are
+//! the batch domain's, in [`crate::batch`].)
 
 use std::fmt::Write as _;
 
-use chrono::{DateTime, Utc};
-
+use super::inert::inert;
 use crate::batch::MeasurementKind;
 use crate::batch::compare::{Comparison, PredictedFrom, Setting, comparisons, readings};
 use crate::batch::{Batch, BatchSummary};
 use crate::measure;
 use crate::measure::cryoscope::hortvet_to_celsius;
+pub use crate::model::time::minute_text;
 
 fn grams(g: f64) -> String {
     format!("{g:.1}")
-}
-
-/// A time as the text forms show it: `2026-12-01 23:10 UTC`.
-pub fn minute_text(t: &DateTime<Utc>) -> String {
-    t.format("%Y-%m-%d %H:%M UTC").to_string()
 }
 
 /// One row of the batch list.
 pub fn summary_line(r: &BatchSummary) -> String {
     format!(
         "{:<16} {}  {:<8} {:>10} g  {} v{}  ({})",
-        r.code,
+        inert(&r.code),
         minute_text(&r.made_at),
         r.status.as_str(),
         grams(r.size_g),
-        r.recipe,
+        inert(&r.recipe),
         r.recipe_version,
-        r.operator
+        inert(&r.operator)
     )
 }
 
@@ -65,19 +62,25 @@ pub fn batch_text(b: &Batch, setting: &Setting<'_>) -> String {
     let mut line = |s: String| {
         let _ = writeln!(out, "{s}");
     };
-    line(format!("{}  {}", b.code, b.status.as_str().to_uppercase()));
+    line(format!(
+        "{}  {}",
+        inert(&b.code),
+        b.status.as_str().to_uppercase()
+    ));
     line(format!(
         "recipe   {} (version {}, {})",
-        b.recipe.recipe, b.recipe.version, b.recipe.content_hash
+        inert(&b.recipe.recipe),
+        b.recipe.version,
+        inert(&b.recipe.content_hash)
     ));
     line(format!(
         "made     {} by {}",
         minute_text(&b.made_at),
-        b.operator
+        inert(&b.operator)
     ));
     line(format!("size     {} g", grams(b.size_g)));
     if let (Some(at), Some(by)) = (&b.finalized_at, &b.finalized_by) {
-        line(format!("final    {} by {}", minute_text(at), by));
+        line(format!("final    {} by {}", minute_text(at), inert(by)));
     }
     line(String::new());
     line(format!(
@@ -88,10 +91,14 @@ pub fn batch_text(b: &Batch, setting: &Setting<'_>) -> String {
         line(format!(
             "{:<4} {:<24} {:>10} {:>10}  {}",
             i + 1,
-            l.ingredient,
+            inert(&l.ingredient),
             grams(l.planned_g),
             l.actual_g.map(grams).unwrap_or_else(|| "-".into()),
-            if l.lot.is_empty() { "-" } else { &l.lot }
+            if l.lot.is_empty() {
+                "-".into()
+            } else {
+                inert(&l.lot)
+            }
         ));
     }
     line(String::new());
@@ -100,7 +107,7 @@ pub fn batch_text(b: &Batch, setting: &Setting<'_>) -> String {
     for c in &compared {
         if let (Some(_), None) = (c.predicted, c.measured) {
             line(format!(
-                "  {:<22} {:>10} {:<6} {}",
+                "     {:<22} {:>10} {:<6} {}",
                 c.kind.as_str(),
                 "-",
                 c.kind.unit(),
@@ -108,10 +115,11 @@ pub fn batch_text(b: &Batch, setting: &Setting<'_>) -> String {
             ));
         }
     }
-    for r in readings(b, &compared) {
+    for (i, r) in readings(b, &compared).into_iter().enumerate() {
         let m = r.measurement;
         let c = compared.iter().find(|c| c.kind == m.kind);
         let against = match (c, r.difference()) {
+            _ if m.struck => "struck out by an amendment".to_owned(),
             (Some(c), Some(d)) => format!("{}, difference {d:+.2}", prediction_text(c)),
             (Some(c), None) => c
                 .no_prediction
@@ -125,12 +133,13 @@ pub fn batch_text(b: &Batch, setting: &Setting<'_>) -> String {
             (None, _) => String::new(),
         };
         line(format!(
-            "  {:<22} {:>10} {:<6} {against}  ({} by {})",
+            "  {:>2} {:<22} {:>10} {:<6} {against}  ({} by {})",
+            i + 1,
             m.kind.as_str(),
             format!("{:.2}", m.value),
             m.kind.unit(),
             minute_text(&m.taken_at),
-            m.by
+            inert(&m.by)
         ));
     }
     for c in compared.iter().filter(|c| c.far_off()) {
@@ -145,28 +154,34 @@ pub fn batch_text(b: &Batch, setting: &Setting<'_>) -> String {
     if !b.notes.is_empty() {
         line(String::new());
         line("notes".into());
-        for n in &b.notes {
+        for (i, n) in b.notes.iter().enumerate() {
             line(format!(
-                "  {} {}: {}",
+                "  {:>2} {} {}: {}{}",
+                i + 1,
                 minute_text(&n.written_at),
-                n.by,
-                n.text
+                inert(&n.by),
+                inert(&n.text),
+                if n.struck {
+                    "  (struck out by an amendment)"
+                } else {
+                    ""
+                }
             ));
         }
     }
     if !b.amendments.is_empty() {
         line(String::new());
-        line("amendments".into());
-        for a in &b.amendments {
+        line("amendments (after sign-off: new readings and notes, and corrections)".into());
+        for (i, a) in b.amendments.iter().enumerate() {
             line(format!(
-                "  {} {}: {}",
+                "  {:>2} {} {}: {}",
+                i + 1,
                 minute_text(&a.amended_at),
-                a.by,
-                a.reason
+                inert(&a.by),
+                inert(&a.reason)
             ));
             for c in &a.changes {
-                let change = serde_json::to_string(c).unwrap_or_default();
-                line(format!("    {change}"));
+                line(format!("       {}", inert(&c.to_string())));
             }
         }
     }

@@ -6,6 +6,7 @@ use std::fmt::Write as _;
 use crate::analysis::{Analysis, Severity};
 
 use super::chart::frozen_share_chart;
+use super::inert::inert;
 use crate::model::TempUnit;
 use crate::model::units::format_volume;
 
@@ -20,7 +21,7 @@ pub fn report_text(a: &Analysis, unit: TempUnit) -> String {
     let _ = writeln!(
         o,
         "{} ({}), {:.0} g, about {:.0} mL",
-        a.name,
+        inert(&a.name),
         a.style.as_str(),
         a.mass_g,
         a.volume_ml
@@ -135,7 +136,7 @@ pub fn report_text(a: &Analysis, unit: TempUnit) -> String {
                 Severity::Advice => "! ",
                 Severity::Note => "i ",
             };
-            let _ = writeln!(o, "  {mark} [{}] {}", w.code, w.message);
+            let _ = writeln!(o, "  {mark} [{}] {}", w.code, inert(&w.message));
         }
     }
     let _ = writeln!(o, "\nShare of the water frozen");
@@ -147,11 +148,11 @@ pub fn report_text(a: &Analysis, unit: TempUnit) -> String {
         "  Fat, protein, fibre, cocoa solids and stabilisers hold no water in this model."
     );
     if !a.allergens.is_empty() {
-        let _ = writeln!(o, "\nAllergens: {}", a.allergens.join(", "));
+        let _ = writeln!(o, "\nAllergens: {}", inert(&a.allergens.join(", ")));
     }
     let _ = writeln!(o, "\nCautions");
     for caution in &a.cautions {
-        let _ = writeln!(o, "  - {caution}");
+        let _ = writeln!(o, "  - {}", inert(caution));
     }
     o
 }

@@ -49,6 +49,17 @@ pub enum StoreError {
         /// What SQLite reported.
         detail: String,
     },
+    /// The file is empty: a batch log never is, so this one was truncated.
+    #[error(
+        "{path} is an empty file (0 bytes), not a batch log. Nothing was changed. If it was your \
+         batch log, it has been cut short: restore it from a backup (gelu keeps a copy beside the \
+         log before each upgrade; `gelu db backup` makes others). To start a new log, give a path \
+         where no file exists."
+    )]
+    EmptyFile {
+        /// The file.
+        path: PathBuf,
+    },
     /// The file or its folder cannot be written.
     #[error(
         "{path} cannot be written (the file, its folder, or its -wal/-shm files are read-only). \
@@ -89,6 +100,17 @@ pub enum StoreError {
         /// The operating system's error.
         source: std::io::Error,
     },
+    /// An import stopped before the end of its input: the records of the
+    /// transactions before were written and stay; nothing at or after `line` was.
+    #[error("{}", import_stopped(*.line, .report, .cause))]
+    ImportStopped {
+        /// The 1-based line it stopped at.
+        line: usize,
+        /// What it did before it stopped.
+        report: super::types::ImportReport,
+        /// Why it stopped.
+        cause: String,
+    },
     /// No batch has this code.
     #[error("no batch has the code {code}; `gelu batch list` shows the codes")]
     NoSuchBatch {
@@ -101,6 +123,23 @@ pub enum StoreError {
     /// Any other database error.
     #[error("database error: {0}. The change was not made; data already saved is safe.")]
     Sql(#[from] rusqlite::Error),
+}
+
+/// What an import that stopped tells the user: where, why, what it wrote, and how
+/// to go on.
+fn import_stopped(line: usize, report: &super::types::ImportReport, cause: &str) -> String {
+    let cause = cause.trim_end_matches('.');
+    match report.imported {
+        0 => format!(
+            "the import stopped at line {line}: {cause}. No record was written to the batch log."
+        ),
+        n => format!(
+            "the import stopped at line {line}: {cause}. {n} {} written before it stopped and \
+             stay in the batch log; run the same import again to resume (codes already present \
+             are skipped).",
+            if n == 1 { "record was" } else { "records were" }
+        ),
+    }
 }
 
 /// Shorthand for results of the store.

@@ -1,13 +1,15 @@
 //! The insert-time guards, lifted for the length of one bulk write: two triggers
 //! (inside its transaction) and foreign-key enforcement (on its connection).
 //!
-//! Two triggers in the schema check each new row: a batch's recipe version belongs
-//! to its recipe, and no line is added to a final batch. Each firing runs a small
-//! sub-program; on an import they were about a fifth of the work, though every
-//! record an import writes passes them by construction: its version ids come from
-//! one row of `recipe_versions`, and its lines belong to a record the same
-//! transaction has just written whole, draft or signed off. The triggers that
-//! refuse updates and deletes stay in place: an import only inserts.
+//! Four triggers in the schema check each new row: a batch's recipe version belongs
+//! to its recipe, and no line, reading or note is added to a final batch. Each
+//! firing runs a small sub-program; on an import they were about a fifth of the
+//! work, though every record an import writes passes them by construction: its
+//! version ids come from one row of `recipe_versions`, and its lines, readings and
+//! notes belong to a record the same transaction has just written whole, draft or
+//! signed off (readings and notes after sign-off are on its trail, not in those
+//! tables). The triggers that refuse updates and deletes stay in place: an import
+//! only inserts.
 //!
 //! So an import drops them inside its own transaction and creates them again, from
 //! the very text the schema holds, before that transaction commits. No other
@@ -19,7 +21,12 @@ use rusqlite::{Connection, OptionalExtension, Transaction};
 use super::error::Result;
 
 /// The triggers an import lifts (names as in schema.sql).
-const INSERT_GUARDS: [&str; 2] = ["batches_version_matches_recipe", "batch_lines_insert_open"];
+const INSERT_GUARDS: [&str; 4] = [
+    "batches_version_matches_recipe",
+    "batch_lines_insert_open",
+    "measurements_insert_open",
+    "batch_notes_insert_open",
+];
 
 /// Runs `work` with the insert-time guards dropped, then creates them again from the
 /// SQL they had. On an error the guards are not recreated here: the caller's

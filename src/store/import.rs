@@ -1,6 +1,13 @@
 //! Importing batch records made elsewhere (JSON Lines or [`Batch`] values). A code
 //! already present is skipped and counted; a refused record is reported by its line
-//! number and nothing of it is written. Lines are read and checked on a second
+//! number with the reason, and nothing of it is written. Every record is checked as
+//! a record the command line could have made ([`crate::batch::validate`]), its trail
+//! against its fields ([`crate::batch::amend::original_record`]); nothing of it is
+//! changed on the way in. A line is read up to [`MAX_LINE_BYTES`]; a longer one is
+//! refused and skipped without being held in memory. An import that stops part-way
+//! ([`StoreError::ImportStopped`]) says where, and how many records it had written.
+//!
+//! Lines are read and checked on a second
 //! thread and written in transactions of a few thousand records: a transaction is
 //! first tried whole, all its new records in a few multi-row statements, and only if
 //! the database refuses something in it is it written again record by record behind
@@ -26,9 +33,10 @@ use super::records::{self, NewRecord};
 use super::search::Pending;
 use super::tx;
 use super::types::ImportReport;
-use crate::batch::amend::original_record;
-use crate::batch::jsonl::read_batch;
+use crate::batch::jsonl::read_line;
+use crate::batch::validate::{Recipes, first_written};
 use crate::batch::{Batch, RecipeVersion};
+use crate::catalog::Catalog;
 
 /// About how many records share one transaction (a crash loses at most one, and
 /// running the import again skips what was written).
@@ -36,6 +44,11 @@ const CHUNK: usize = 5_000;
 
 /// How many records the reader hands to the writer at a time.
 const PIECE: usize = 250;
+
+/// The longest line an import reads (16 MiB): a record with its recipe text and
+/// full prediction is a few kilobytes; a longer line is refused and skipped
+/// without being held in memory.
+pub const MAX_LINE_BYTES: usize = 16 << 20;
 
 /// A record ready to write: as first written (before its amendments), with its
 /// prediction as JSON text.
@@ -48,22 +61,17 @@ struct Record {
 /// before anything was written.
 type Item = (usize, std::result::Result<Record, String>);
 
-/// The record as first written, rebuilt from the current values and the trail.
-fn first_written(batch: Batch) -> std::result::Result<Batch, String> {
-    let (operator, lines) = original_record(&batch).map_err(|e| e.to_string())?;
-    Ok(Batch {
-        operator,
-        lines,
-        ..batch
-    })
-}
-
-fn record(batch: Batch) -> std::result::Result<Record, String> {
+fn record(batch: Batch, recipes: &mut Recipes) -> std::result::Result<Record, String> {
     let prediction_json = batch.prediction.to_string();
-    let first = first_written(Batch {
-        prediction: Value::Null,
-        ..batch
-    })?;
+    let first = first_written(
+        Batch {
+            prediction: Value::Null,
+            ..batch
+        },
+        recipes,
+        Catalog::builtin(),
+    )
+    .map_err(|e| e.0)?;
     Ok(Record {
         first,
         prediction_json,
@@ -72,13 +80,10 @@ fn record(batch: Batch) -> std::result::Result<Record, String> {
 
 /// Reads one line. The prediction, most of the line, is kept as the text
 /// it was (checked to be JSON) rather than parsed into a tree and written out again.
-fn parse_line(text: &str) -> std::result::Result<Record, String> {
-    // A byte-order mark, as some editors put at the start of a file, and a Windows
-    // line end are not part of the record.
-    let text = text.trim_start_matches('\u{feff}').trim_end();
-    let (batch, prediction) = read_batch(text).map_err(|e| e.0)?;
+fn parse_line(text: &str, recipes: &mut Recipes) -> std::result::Result<Record, String> {
+    let (first, prediction) = read_line(text, recipes, Catalog::builtin()).map_err(|e| e.0)?;
     Ok(Record {
-        first: first_written(batch)?,
+        first,
         prediction_json: prediction.to_owned(),
     })
 }
@@ -201,21 +206,27 @@ fn merge(into: &mut ImportReport, part: ImportReport) {
     into.errors.extend(part.errors);
 }
 
+/// Why an import's writes stopped: the first line of the transaction that failed
+/// (nothing of it was kept), and the error.
+type WriteStop = (usize, StoreError);
+
 /// Writes the pieces `next` hands out, in transactions of about [`CHUNK`] records.
 /// Each piece is written as soon as it comes, so a reader on another thread checks
 /// the next piece meanwhile. A transaction is first tried whole; if the database
 /// refuses something in it, it is rolled back and written again record by record.
+/// Returns what the committed transactions did, and why it stopped, if it did.
 fn write_pieces(
     conn: &mut Connection,
     path: &Path,
     checkpoints: &Checkpoints,
     mut next: impl FnMut() -> Option<Vec<Item>>,
     mut spent: impl FnMut(Vec<Vec<Item>>),
-) -> Result<ImportReport> {
+) -> (ImportReport, Option<WriteStop>) {
     let mut report = ImportReport::default();
     let mut finished = false;
     while !finished {
         let Some(first) = next() else { break };
+        let first_line = first.first().map_or(0, |(n, _)| *n);
         let mut taken = vec![first];
         checkpoints.before_transaction();
         let attempt = tx::write(conn, path, |tx| {
@@ -239,18 +250,23 @@ fn write_pieces(
             })
         });
         let part = match attempt {
-            Ok(part) => part,
-            Err(e) => {
-                // Something was refused: nothing of this transaction was kept.
-                refusal(e)?;
-                tx::write(conn, path, |tx| write_carefully(tx, &taken))?
-            }
+            Ok(part) => Ok(part),
+            // Something was refused: nothing of this transaction was kept.
+            Err(e) => match refusal(e) {
+                Ok(_) => tx::write(conn, path, |tx| write_carefully(tx, &taken)),
+                Err(e) => Err(e),
+            },
         };
-        checkpoints.committed();
-        merge(&mut report, part);
-        spent(taken);
+        match part {
+            Ok(part) => {
+                checkpoints.committed();
+                merge(&mut report, part);
+                spent(taken);
+            }
+            Err(e) => return (report, Some((first_line, e))),
+        }
     }
-    Ok(report)
+    (report, None)
 }
 
 impl Store {
@@ -262,11 +278,11 @@ impl Store {
         &mut self,
         next: impl FnMut() -> Option<Vec<Item>>,
         spent: impl FnMut(Vec<Vec<Item>>),
-    ) -> Result<ImportReport> {
+    ) -> Result<(ImportReport, Option<WriteStop>)> {
         let path = self.path.clone();
         guards::without_foreign_keys(&mut self.conn, |conn| {
             checkpoint::with_checkpointer(conn, &path, |conn, checkpoints| {
-                write_pieces(conn, &path, checkpoints, next, spent)
+                Ok(write_pieces(conn, &path, checkpoints, next, spent))
             })
         })
     }
@@ -274,18 +290,27 @@ impl Store {
     /// Writes batches recorded elsewhere, as an import does; a refused batch is
     /// reported by its 1-based position and nothing of it is written.
     pub fn import_batches(&mut self, list: &[Batch]) -> Result<ImportReport> {
-        let mut pieces = list.chunks(PIECE).enumerate().map(|(start, part)| {
+        let mut recipes = Recipes::default();
+        let mut pieces = list.chunks(PIECE).enumerate().map(move |(start, part)| {
             part.iter()
                 .enumerate()
-                .map(|(i, b)| (start * PIECE + i + 1, record(b.clone())))
+                .map(|(i, b)| (start * PIECE + i + 1, record(b.clone(), &mut recipes)))
                 .collect::<Vec<Item>>()
         });
-        self.import_pieces(|| pieces.next(), drop)
+        let (report, stop) = self.import_pieces(|| pieces.next(), drop)?;
+        match stop {
+            None => Ok(report),
+            Some((line, e)) => Err(stopped(line, report, e.to_string())),
+        }
     }
 
     /// Reads JSON Lines of batches. A code already present is skipped and counted; a
-    /// malformed line is reported by number and nothing of it is written. Lines are
-    /// read and checked on a second thread while the ones before are written.
+    /// line refused is reported by number with the reason, and nothing of it is
+    /// written. Lines are read and checked on a second thread while the ones before
+    /// are written. When the input cannot be read on, or the log refuses a write,
+    /// the import stops with [`StoreError::ImportStopped`], which says at which line
+    /// and how many records were written before; a CSV export is refused at its
+    /// first line.
     pub fn import_jsonl(&mut self, input: &mut (dyn BufRead + Send)) -> Result<ImportReport> {
         std::thread::scope(|scope| {
             // A few pieces wait while one is written: memory stays near one transaction.
@@ -303,38 +328,132 @@ impl Store {
             );
             // After an error the reader stops at its next piece, as no one listens.
             drop(parsed);
-            let read = reader.join().expect("the import reader panicked");
-            let report = written?;
-            read.map(|()| report)
+            let read = match reader.join() {
+                Ok(read) => read,
+                Err(_) => Err((0, "the import's reader stopped on an internal error".into())),
+            };
+            let (report, stop) = written?;
+            match (stop, read) {
+                (Some((line, e)), _) => Err(stopped(line, report, e.to_string())),
+                (None, Err((line, why))) => Err(stopped(line, report, why)),
+                (None, Ok(())) => Ok(report),
+            }
         })
     }
 }
 
+fn stopped(line: usize, report: ImportReport, cause: String) -> StoreError {
+    StoreError::ImportStopped {
+        line,
+        report,
+        cause,
+    }
+}
+
+/// One line as read: its bytes (without the line break), or that it was too long.
+enum Line {
+    /// The end of the input.
+    End,
+    /// A whole line, at most [`MAX_LINE_BYTES`].
+    Text,
+    /// A line longer than [`MAX_LINE_BYTES`]: skipped to its end, not kept.
+    TooLong,
+}
+
+/// Reads one line into `buf` (cleared first), keeping at most `max` bytes of it.
+fn read_bounded(input: &mut dyn BufRead, buf: &mut Vec<u8>, max: usize) -> std::io::Result<Line> {
+    buf.clear();
+    let mut read_any = false;
+    let mut too_long = false;
+    loop {
+        let available = match input.fill_buf() {
+            Ok(b) => b,
+            Err(e) if e.kind() == std::io::ErrorKind::Interrupted => continue,
+            Err(e) => return Err(e),
+        };
+        if available.is_empty() {
+            break;
+        }
+        read_any = true;
+        let (chunk, done) = match available.iter().position(|&b| b == b'\n') {
+            Some(i) => (&available[..i], Some(i + 1)),
+            None => (available, None),
+        };
+        if !too_long && buf.len() + chunk.len() <= max {
+            buf.extend_from_slice(chunk);
+        } else {
+            too_long = true;
+            buf.clear();
+        }
+        let used = done.unwrap_or(available.len());
+        input.consume(used);
+        if done.is_some() {
+            break;
+        }
+    }
+    Ok(match (read_any, too_long) {
+        (false, _) => Line::End,
+        (true, false) => Line::Text,
+        (true, true) => Line::TooLong,
+    })
+}
+
 /// Reads and checks lines, handing them on a piece at a time, and frees the pieces
-/// the writer hands back; stops early when the writer has stopped listening.
+/// the writer hands back; stops early when the writer has stopped listening. When
+/// the input cannot be read on, what was read before is handed on first, and the
+/// line and reason returned.
 fn read_pieces(
     input: &mut (dyn BufRead + Send),
     pieces: std::sync::mpsc::SyncSender<Vec<Item>>,
     spent: &std::sync::mpsc::Receiver<Vec<Vec<Item>>>,
-) -> Result<()> {
+) -> std::result::Result<(), (usize, String)> {
     let mut items: Vec<Item> = Vec::with_capacity(PIECE);
+    let mut recipes = Recipes::default();
     let mut number = 0;
-    let mut line = String::new();
+    let mut line = Vec::new();
+    let mut failed = None;
     loop {
-        line.clear();
-        let read = input
-            .read_line(&mut line)
-            .map_err(|source| StoreError::Io {
-                path: "the import file".into(),
-                source,
-            })?;
-        if read > 0 {
-            number += 1;
-            if !line.trim().is_empty() {
-                items.push((number, parse_line(&line)));
+        let read = match read_bounded(input, &mut line, MAX_LINE_BYTES) {
+            Ok(read) => read,
+            Err(e) => {
+                failed = Some((number + 1, format!("the file could not be read on: {e}")));
+                Line::End
             }
+        };
+        let end = matches!(read, Line::End);
+        if !end {
+            number += 1;
         }
-        if items.len() >= PIECE || (read == 0 && !items.is_empty()) {
+        match read {
+            Line::End => {}
+            Line::TooLong => items.push((
+                number,
+                Err(format!(
+                    "the line is longer than {} MiB, so it cannot be a batch record",
+                    MAX_LINE_BYTES >> 20
+                )),
+            )),
+            Line::Text => match std::str::from_utf8(&line) {
+                Err(e) => items.push((
+                    number,
+                    Err(format!(
+                        "the line is not UTF-8 text (byte {} is not), so it cannot be a batch record",
+                        e.valid_up_to() + 1
+                    )),
+                )),
+                Ok(text) if number == 1 && crate::batch::csv::is_export_header(text) => {
+                    return Err((
+                        1,
+                        "this is a CSV export; import reads JSON Lines, as `gelu batch export` \
+                         writes by default (--format jsonl)"
+                            .into(),
+                    ));
+                }
+                Ok(text) if text.trim().is_empty() => {}
+                Ok(text) => items.push((number, parse_line(text, &mut recipes))),
+            },
+        }
+        if items.len() >= PIECE || (end && !items.is_empty()) {
             while let Ok(done) = spent.try_recv() {
                 drop(done);
             }
@@ -345,14 +464,14 @@ fn read_pieces(
                 return Ok(());
             }
         }
-        if read == 0 {
+        if end {
             // No more pieces (the writer sees the end), then free what the writer
             // hands back until it is done.
             drop(pieces);
             for done in spent {
                 drop(done);
             }
-            return Ok(());
+            return failed.map_or(Ok(()), Err);
         }
     }
 }

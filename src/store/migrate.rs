@@ -96,13 +96,22 @@ impl Migrated {
     }
 }
 
-/// Brings the database up to the last of `steps`. `seed` runs, in the same
-/// transaction, only when the database was new (version 0).
+/// What runs inside a migration's transaction besides the SQL sections.
+pub struct Hooks<'a> {
+    /// Runs only when the database was new (version 0): the first run's seed.
+    pub seed: &'a dyn Fn(&Transaction) -> Result<()>,
+    /// Runs after the sections whenever any ran: work SQL cannot do (sealing the
+    /// records signed off before seals were kept). It must be idempotent.
+    pub after: &'a dyn Fn(&Transaction) -> Result<()>,
+}
+
+/// Brings the database up to the last of `steps`, running `hooks` in the same
+/// transaction.
 pub fn migrate(
     conn: &mut Connection,
     path: &Path,
     steps: &[Migration<'_>],
-    seed: &dyn Fn(&Transaction) -> Result<()>,
+    hooks: &Hooks<'_>,
 ) -> Result<Migrated> {
     let target = steps.last().map_or(0, |m| m.version);
     let found = user_version(conn)?;
@@ -139,6 +148,9 @@ pub fn migrate(
             tx.execute_batch(step.sql)?;
         }
         if from < target {
+            (hooks.after)(tx)?;
+        }
+        if from < target {
             tx.pragma_update(None, "user_version", target)?;
             // A section may edit a definition in sqlite_schema (SQLite's documented way
             // to drop a CHECK constraint), which does not tell other connections; a
@@ -147,7 +159,7 @@ pub fn migrate(
             tx.pragma_update(None, "schema_version", cookie + 1)?;
         }
         if from == 0 {
-            seed(tx)?;
+            (hooks.seed)(tx)?;
         }
         Ok(from)
     })?;
@@ -198,10 +210,19 @@ mod tests {
         let v1 = "-- migration 1\nCREATE TABLE a (x INTEGER);\n";
         let v2 = "-- migration 1\nCREATE TABLE a (x INTEGER);\n-- migration 2\nALTER TABLE a ADD COLUMN y TEXT;\n";
         let seeded = std::cell::Cell::new(0);
+        let afters = std::cell::Cell::new(0);
         let seed = |tx: &Transaction| {
             seeded.set(seeded.get() + 1);
             tx.execute("INSERT INTO a (x) VALUES (7)", [])?;
             Ok(())
+        };
+        let after = |_: &Transaction| {
+            afters.set(afters.get() + 1);
+            Ok(())
+        };
+        let seed = Hooks {
+            seed: &seed,
+            after: &after,
         };
         let mut conn = Connection::open(&path).unwrap();
         let first = migrate(&mut conn, &path, &parse_migrations(v1), &seed).unwrap();
@@ -209,6 +230,7 @@ mod tests {
         let second = migrate(&mut conn, &path, &parse_migrations(v2), &seed).unwrap();
         assert_eq!((second.from, second.to), (1, 2));
         assert_eq!(seeded.get(), 1, "seeding happens only for a new file");
+        assert_eq!(afters.get(), 2, "the after-hook runs with every migration");
         let copy = second.backup.expect("a backup before migrating version 1");
         let old = Connection::open(&copy).unwrap();
         assert_eq!(user_version(&old).unwrap(), 1);

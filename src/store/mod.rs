@@ -31,11 +31,13 @@ mod list;
 pub mod migrate;
 pub mod open;
 mod outbox;
+mod protections;
 mod pulled;
 mod recipes;
 mod record;
 mod records;
 mod rows;
+mod seals;
 mod search;
 mod seed;
 mod settings;
@@ -68,12 +70,28 @@ impl std::fmt::Debug for Store {
     }
 }
 
+/// What runs inside a migration besides its SQL: the seed of a new log, and the
+/// seals of records signed off before seals were kept.
+const HOOKS: migrate::Hooks<'static> = migrate::Hooks {
+    seed: &seed::seed_samples,
+    after: &seals::seal_unsealed,
+};
+
 impl Store {
-    /// Opens the batch log at `path`, creating, migrating and (when new) seeding it.
+    /// Opens the batch log at `path`, migrating it; a path where no file exists
+    /// gets a new log, seeded with the sample recipes. An empty file is refused.
     pub fn open(path: &Path) -> Result<Store> {
+        let mut created = false;
+        if !path.exists() {
+            created = open::create(path, |conn, at| {
+                migrate::migrate(conn, at, &migrate::migrations(), &HOOKS).map(drop)
+            })?;
+        }
         let mut conn = open::connect(path)?;
-        let migrated =
-            migrate::migrate(&mut conn, path, &migrate::migrations(), &seed::seed_samples)?;
+        let mut migrated = migrate::migrate(&mut conn, path, &migrate::migrations(), &HOOKS)?;
+        if created {
+            migrated.from = 0;
+        }
         Ok(Store {
             conn,
             path: path.to_path_buf(),
@@ -82,8 +100,9 @@ impl Store {
     }
 
     /// Opens an existing batch log to read only: nothing is created, migrated or
-    /// written, and a log of an older schema is read as it is. `None` when the
-    /// file holds no log yet.
+    /// written, and a log of an older schema is read as it is (for commands that
+    /// only read, and for a log that cannot be written). `None` when the file holds
+    /// no log yet.
     pub fn open_read_only(path: &Path) -> Result<Option<Store>> {
         let (conn, version) = open::connect_read_only(path)?;
         if version == 0 {
@@ -122,8 +141,11 @@ impl Store {
         &self.migrated
     }
 
-    /// Runs SQLite's integrity and foreign-key checks and checks that every analysis
-    /// prediction is JSON; returns the problems found.
+    /// Runs SQLite's integrity and foreign-key checks; checks that every analysis
+    /// prediction is JSON, that every protection of the schema is in place as gelu
+    /// made it, that every recipe version's text matches its hash, and that every
+    /// signed-off record matches its seals; returns the problems found, one
+    /// sentence each, naming the record, version or schema object.
     pub fn check(&self) -> Result<Vec<String>> {
         let mut problems = Vec::new();
         let mut integrity = self.conn.prepare("PRAGMA integrity_check")?;
@@ -161,9 +183,39 @@ impl Store {
         let version = migrate::user_version(&self.conn)?;
         if version != migrate::latest_version() {
             problems.push(format!(
-                "schema version is {version}, expected {}",
+                "schema version is {version}, expected {} (open the log once with write access to upgrade it)",
                 migrate::latest_version()
             ));
+        }
+        problems.extend(protections::problems(&self.conn, version)?);
+        let mut versions = self.conn.prepare(
+            "SELECT r.name, v.version, v.content_hash, v.text FROM recipe_versions v
+             JOIN recipes r ON r.id = v.recipe_id ORDER BY r.name, v.version",
+        )?;
+        let rows = versions.query_map([], |r| {
+            Ok(crate::batch::RecipeVersion {
+                recipe: r.get(0)?,
+                version: r.get(1)?,
+                content_hash: r.get(2)?,
+                text: r.get(3)?,
+            })
+        })?;
+        for row in rows {
+            let v = row?;
+            if crate::batch::version::content_hash(&v.text) != v.content_hash {
+                problems.push(format!(
+                    "recipe `{}` version {}: its text no longer matches its hash: it was changed outside gelu",
+                    v.recipe, v.version
+                ));
+            }
+        }
+        let sealed: bool = self.conn.query_row(
+            "SELECT EXISTS (SELECT 1 FROM sqlite_schema WHERE name = 'batch_seals')",
+            [],
+            |r| r.get(0),
+        )?;
+        if sealed {
+            problems.extend(seals::problems(&self.conn)?);
         }
         Ok(problems)
     }

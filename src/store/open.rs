@@ -1,7 +1,11 @@
 //! Opening the database file: where it lives by default, what is checked before
-//! anything is written (a newer schema, another program's file, a damaged or
-//! read-only file), and the connection settings (WAL, synchronous=FULL so a
+//! anything is written (a newer schema, another program's file, an empty, damaged
+//! or read-only file), and the connection settings (WAL, synchronous=FULL so a
 //! committed batch survives a power cut, foreign keys, a busy timeout).
+//!
+//! A new log is built whole under a temporary name beside the path and then linked
+//! into place, so no process ever finds a log half made: a file of zero bytes at
+//! the path is never gelu's work in progress, and is refused as a truncated log.
 
 use std::path::{Path, PathBuf};
 
@@ -39,9 +43,20 @@ fn probe(conn: &Connection) -> rusqlite::Result<Probe> {
     })
 }
 
-/// Refuses a file newer than this program, or one that is not a gelu log (an
-/// empty file is neither).
-fn refuse_foreign(path: &Path, found: &Probe) -> Result<()> {
+/// Refuses a file of zero bytes: a batch log is never empty, so it was truncated.
+fn refuse_empty(path: &Path) -> Result<()> {
+    match std::fs::metadata(path) {
+        Ok(meta) if meta.is_file() && meta.len() == 0 => Err(StoreError::EmptyFile {
+            path: path.to_path_buf(),
+        }),
+        _ => Ok(()),
+    }
+}
+
+/// Refuses a file that is too new for this gelu or is not a gelu batch log (a new,
+/// empty SQLite file is neither); returns what it found.
+fn refuse_foreign(conn: &Connection, path: &Path) -> Result<Probe> {
+    let found = tx::retry(path, || probe(conn).map_err(|e| classify(path, e)))?;
     let supported = migrate::latest_version();
     if found.version > supported {
         return Err(StoreError::TooNew {
@@ -56,26 +71,23 @@ fn refuse_foreign(path: &Path, found: &Probe) -> Result<()> {
             path: path.to_path_buf(),
         });
     }
-    Ok(())
+    Ok(found)
 }
 
-/// Opens an existing file to read only (nothing is created or written), refusing
-/// files that are not ours or too new. Returns the connection and the schema version.
-pub fn connect_read_only(path: &Path) -> Result<(Connection, i64)> {
-    let flags = OpenFlags::SQLITE_OPEN_READ_ONLY | OpenFlags::SQLITE_OPEN_NO_MUTEX;
-    let conn = Connection::open_with_flags(path, flags).map_err(|e| classify(path, e))?;
-    conn.busy_timeout(tx::BUSY_TIMEOUT)?;
-    let found = tx::retry(path, || probe(&conn).map_err(|e| classify(path, e)))?;
-    refuse_foreign(path, &found)?;
-    Ok((conn, found.version))
-}
-
-/// Opens (creating if needed) the file, refuses files that are not ours or too new,
-/// and applies the connection settings. Does not migrate.
+/// Opens the file for reading and writing (an SQLite file is created where none
+/// is; [`Store::open`](super::Store::open) builds a new log whole with [`create`]
+/// instead), refuses files that are empty, not ours or too new, and applies the
+/// connection settings. Does not migrate.
 pub fn connect(path: &Path) -> Result<Connection> {
-    let flags = OpenFlags::SQLITE_OPEN_READ_WRITE
-        | OpenFlags::SQLITE_OPEN_CREATE
-        | OpenFlags::SQLITE_OPEN_NO_MUTEX;
+    open_read_write(path, true)
+}
+
+fn open_read_write(path: &Path, create: bool) -> Result<Connection> {
+    refuse_empty(path)?;
+    let mut flags = OpenFlags::SQLITE_OPEN_READ_WRITE | OpenFlags::SQLITE_OPEN_NO_MUTEX;
+    if create {
+        flags |= OpenFlags::SQLITE_OPEN_CREATE;
+    }
     let conn = Connection::open_with_flags(path, flags).map_err(|e| classify(path, e))?;
     conn.busy_timeout(tx::BUSY_TIMEOUT)?;
     if conn.is_readonly(MAIN_DB)? {
@@ -83,8 +95,7 @@ pub fn connect(path: &Path) -> Result<Connection> {
             path: path.to_path_buf(),
         });
     }
-    let found = tx::retry(path, || probe(&conn).map_err(|e| classify(path, e)))?;
-    refuse_foreign(path, &found)?;
+    refuse_foreign(&conn, path)?;
     let mode: String = tx::retry(path, || {
         conn.pragma_update_and_check(None, "journal_mode", "WAL", |r| r.get(0))
             .map_err(|e| classify(path, e))
@@ -104,4 +115,76 @@ pub fn connect(path: &Path) -> Result<Connection> {
     // Savepoint and statement journals in memory (they never hold committed data).
     conn.pragma_update(None, "temp_store", "MEMORY")?;
     Ok(conn)
+}
+
+/// Opens an existing log for reading only (a log on read-only media, one the
+/// user may not write, or one only read from): the same refusals, no migration,
+/// no writes. Returns the connection and the schema version it has.
+pub fn connect_read_only(path: &Path) -> Result<(Connection, i64)> {
+    refuse_empty(path)?;
+    let flags = OpenFlags::SQLITE_OPEN_READ_ONLY | OpenFlags::SQLITE_OPEN_NO_MUTEX;
+    let conn = Connection::open_with_flags(path, flags).map_err(|e| classify(path, e))?;
+    conn.busy_timeout(tx::BUSY_TIMEOUT)?;
+    let found = refuse_foreign(&conn, path)?;
+    conn.pragma_update(None, "query_only", true)?;
+    Ok((conn, found.version))
+}
+
+/// The same error about `path` as `e` is about the temporary file built in its place.
+fn about(e: StoreError, path: &Path) -> StoreError {
+    let path = path.to_path_buf();
+    match e {
+        StoreError::ReadOnly { .. } => StoreError::ReadOnly { path },
+        StoreError::CannotOpen { .. } => StoreError::CannotOpen { path },
+        StoreError::Busy { .. } => StoreError::Busy { path },
+        StoreError::Corrupt { detail, .. } => StoreError::Corrupt { path, detail },
+        StoreError::Io { source, .. } => StoreError::Io { path, source },
+        other => other,
+    }
+}
+
+/// Makes a new log at `path` (which does not exist): built whole under a
+/// temporary name beside it by `build`, then linked into place. Returns false when
+/// another process made the log first (then its log is the one to open).
+pub fn create(
+    path: &Path,
+    build: impl FnOnce(&mut Connection, &Path) -> Result<()>,
+) -> Result<bool> {
+    let name = path
+        .file_name()
+        .map(|n| n.to_string_lossy().into_owned())
+        .unwrap_or_else(|| "gelu.db".to_owned());
+    let stamp = crate::clock::now()
+        .timestamp_nanos_opt()
+        .unwrap_or_default();
+    let tmp = path.with_file_name(format!(".{name}.new-{}-{stamp}", std::process::id()));
+    let remove = |p: &Path| {
+        for suffix in ["", "-wal", "-shm", "-journal"] {
+            let mut s = p.as_os_str().to_owned();
+            s.push(suffix);
+            let _ = std::fs::remove_file(std::path::PathBuf::from(s));
+        }
+    };
+    let built = (|| {
+        let mut conn = open_read_write(&tmp, true)?;
+        build(&mut conn, &tmp)?;
+        conn.execute_batch("PRAGMA wal_checkpoint(TRUNCATE);")?;
+        Ok(())
+    })();
+    if let Err(e) = built {
+        remove(&tmp);
+        return Err(about(e, path));
+    }
+    let placed = match std::fs::hard_link(&tmp, path) {
+        Ok(()) => Ok(true),
+        Err(e) if e.kind() == std::io::ErrorKind::AlreadyExists => Ok(false),
+        // A file system without hard links: move it, unless a log appeared meanwhile.
+        Err(_) if path.exists() => Ok(false),
+        Err(_) => std::fs::rename(&tmp, path).map(|()| true),
+    };
+    remove(&tmp);
+    placed.map_err(|source| StoreError::Io {
+        path: path.to_path_buf(),
+        source,
+    })
 }

@@ -17,6 +17,7 @@ use super::error::{Result, StoreError};
 use super::outbox::{ENTRY_TABLES, mark, raise_mark, read_head, set_mark};
 use super::recipes::{self, VersionIds};
 use super::records::{self, NewRecord};
+use super::seals;
 use super::search::{self, Pending, Slot};
 use super::site::site_code;
 use super::sync_types::{PullOutcome, PulledPage};
@@ -387,6 +388,31 @@ fn write_entry(
         EntryBody::Note { .. } => "batch_notes",
         EntryBody::Amendment { .. } => "amendments",
     };
+    let signed_off: bool = tx
+        .prepare_cached("SELECT status = 'final' FROM batches WHERE id = ?1")?
+        .query_row([id], |r| r.get(0))?;
+    if signed_off && table != "amendments" {
+        // A record signed off here takes new readings and notes only on its trail:
+        // a bare reading or note for it (which no gelu that syncs writes) is kept
+        // aside whole for a person to decide, never slipped into the record.
+        let detail = format!(
+            "a {} on {} from site {} arrived after the record was signed off here; \
+             a signed-off record takes new readings and notes on its amendment trail",
+            e.body.kind(),
+            e.code,
+            e.site
+        );
+        out.conflicts += usize::from(hold(
+            tx,
+            "late-entry",
+            &e.code,
+            &e.site,
+            hash,
+            &detail,
+            &record,
+        )?);
+        return Ok(());
+    }
     let present: bool = tx
         .prepare_cached(&format!(
             "SELECT EXISTS (SELECT 1 FROM {table} WHERE entry_hash = ?1)"
@@ -458,6 +484,10 @@ fn write_entry(
                 Err(_) => reason.clone(),
             };
             search_entries.push(id, Slot::Amendment(count(tx)?), &words);
+            if signed_off {
+                // Every entry on a signed-off record's trail is sealed, as here.
+                seals::seal_now(tx, id)?;
+            }
         }
     }
     out.entries += 1;

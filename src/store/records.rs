@@ -8,8 +8,10 @@ use rusqlite::{ToSql, Transaction};
 use super::error::{Result, StoreError};
 use super::recipes::VersionIds;
 use super::rows;
+use super::seals::{self, NewSeal};
 use super::search::{self, Pending, Slot};
-use crate::batch::validate::{check_finite, check_name, check_record};
+use crate::batch::seal::seal;
+use crate::batch::validate::{check_note, check_reading, check_record, check_text};
 use crate::batch::{Amendment, Batch, Measurement, Note, Status};
 use crate::clock;
 use crate::model::time::time_text;
@@ -21,7 +23,8 @@ const GROUP: usize = 32;
 pub(crate) struct NewRecord<'a> {
     /// Its recipe version's row ids.
     pub ids: VersionIds,
-    /// The record: `operator` and `lines` as first recorded, then its trail.
+    /// The record as first written (operator, lines, readings and notes before
+    /// its trail), with its trail in `amendments`.
     pub batch: &'a Batch,
     /// Its prediction as JSON text (`batch.prediction` is not read, so an
     /// import can pass the text it read without parsing it).
@@ -36,32 +39,30 @@ struct SignOff<'a> {
     by: Option<&'a str>,
 }
 
+/// The sign-off as stored: exactly what the record says ([`check_record`] has made
+/// sure a final record has both fields and a draft neither).
 fn sign_off(batch: &Batch) -> SignOff<'_> {
-    let made_at = time_text(&batch.made_at);
-    match batch.status {
-        Status::Draft => SignOff {
-            made_at,
-            status: "draft",
-            at: None,
-            by: None,
+    SignOff {
+        made_at: time_text(&batch.made_at),
+        status: if batch.status == Status::Draft {
+            "draft"
+        } else {
+            "final"
         },
-        Status::Final | Status::Amended => SignOff {
-            made_at,
-            status: "final",
-            at: Some(time_text(&batch.finalized_at.unwrap_or(batch.made_at))),
-            by: Some(batch.finalized_by.as_deref().unwrap_or_default()),
-        },
+        at: batch.finalized_at.as_ref().map(time_text),
+        by: batch.finalized_by.as_deref(),
     }
 }
 
-/// Writes whole records (with lines, prediction, notes, measurements and amendments)
-/// and queues their search entries on `search`; returns their row ids, in order.
-/// Everything is checked before anything is written.
+/// Writes whole records (with lines, prediction, notes, measurements, amendments
+/// and, when signed off, their seal) and queues their search entries on `search`;
+/// returns their row ids, in order. Everything is checked before anything is
+/// written.
 ///
 /// A record that is not a draft is written signed off at once, lines and all. The
-/// schema refuses lines for a final batch, so that is only possible inside
-/// [`super::guards::without_insert_guards`], as an import does; elsewhere it fails
-/// whole.
+/// schema refuses lines, readings and notes for a final batch, so that is only
+/// possible inside [`super::guards::without_insert_guards`], as an import does;
+/// elsewhere it fails whole.
 pub(crate) fn insert_records(
     tx: &Transaction,
     records: &[NewRecord],
@@ -153,8 +154,13 @@ pub(crate) fn insert_records(
     let mut notes = Vec::with_capacity(trail(|b| b.notes.len()));
     let mut measurements = Vec::with_capacity(trail(|b| b.measurements.len()));
     let mut amendments = Vec::with_capacity(trail(|b| b.amendments.len()));
+    let mut sealed: Vec<NewSeal> = Vec::new();
     for (r, &id) in records.iter().zip(&ids) {
         let b = r.batch;
+        if b.status != Status::Draft {
+            let n = b.amendments.len();
+            sealed.push((id, n, seal(b, n, r.prediction_json)));
+        }
         let lots: Vec<&str> = b.lines.iter().map(|l| l.lot.as_str()).collect();
         search.push(id, Slot::Lots, &lots.join(" "));
         for (i, note) in b.notes.iter().enumerate() {
@@ -170,13 +176,14 @@ pub(crate) fn insert_records(
     insert_notes(tx, &notes)?;
     insert_measurements(tx, &measurements)?;
     insert_amendments(tx, &amendments)?;
+    seals::insert(tx, &sealed)?;
     Ok(ids)
 }
 
 /// Writes notes, each with the row id of its batch.
 pub(crate) fn insert_notes(tx: &Transaction, notes: &[(i64, &Note)]) -> Result<()> {
     for (_, n) in notes {
-        check_name("a note", &n.text)?;
+        check_note(n)?;
     }
     let times: Vec<String> = notes
         .iter()
@@ -198,7 +205,7 @@ pub(crate) fn insert_notes(tx: &Transaction, notes: &[(i64, &Note)]) -> Result<(
 /// Writes measurements, each with the row id of its batch.
 pub(crate) fn insert_measurements(tx: &Transaction, list: &[(i64, &Measurement)]) -> Result<()> {
     for (_, m) in list {
-        check_finite(m.kind.as_str(), m.value)?;
+        check_reading(m)?;
     }
     let texts: Vec<(&str, &str, String)> = list
         .iter()
@@ -221,7 +228,7 @@ pub(crate) fn insert_measurements(tx: &Transaction, list: &[(i64, &Measurement)]
 pub(crate) fn insert_amendments(tx: &Transaction, list: &[(i64, &Amendment)]) -> Result<()> {
     let mut texts = Vec::with_capacity(list.len());
     for (_, a) in list {
-        check_name("the reason for an amendment", &a.reason)?;
+        check_text("the reason for an amendment", &a.reason)?;
         let changes = serde_json::to_string(&a.changes)
             .map_err(|e| StoreError::Invalid(format!("the changes could not be written: {e}")))?;
         texts.push((time_text(&a.amended_at), changes));

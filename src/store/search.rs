@@ -42,7 +42,8 @@ fn rowid(batch_id: i64, slot: Slot) -> i64 {
     batch_id * PER_BATCH + offset
 }
 
-/// The searchable words of an amendment: its reason and the new values.
+/// The searchable words of an amendment: its reason and the new values (a note
+/// added or corrected after sign-off is found like any other note).
 pub(crate) fn amendment_text(a: &Amendment) -> String {
     let mut text = a.reason.clone();
     for c in &a.changes {
@@ -50,6 +51,11 @@ pub(crate) fn amendment_text(a: &Amendment) -> String {
         match c {
             Change::Operator { new, .. } | Change::Lot { new, .. } => text.push_str(new),
             Change::ActualG { new, .. } => text.push_str(&new.to_string()),
+            Change::AddNote(n) | Change::ReplaceNote { new: n, .. } => text.push_str(&n.text),
+            Change::AddReading(m) | Change::ReplaceReading { new: m, .. } => {
+                text.push_str(m.kind.as_str())
+            }
+            Change::StrikeReading { .. } | Change::StrikeNote { .. } => {}
         }
     }
     text

@@ -14,14 +14,19 @@ use crate::batch::shared::{
 };
 use crate::store::{PullOutcome, PulledPage, Store};
 
-/// The hub's tables, in the order records depend on each other.
+/// The hub's tables, in the order records depend on each other. A batch's
+/// readings, notes and trail entries come before its sign-off: a record is sealed
+/// when it is signed off (see `crate::batch::seal`), so what it held at sign-off
+/// where it was written must be in place here first. (A push sends a sign-off in
+/// the same hub transaction as the rows written before it, so one pass up to the
+/// same highest row number always holds both.)
 const TABLES: [&str; 7] = [
     "recipe_versions",
     "batches",
-    "finalisations",
     "measurements",
     "notes",
     "amendments",
+    "finalisations",
     "decisions",
 ];
 

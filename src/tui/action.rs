@@ -80,8 +80,8 @@ commands! {
     Save => "save", "Save: back to its file, or as a new version in the database";
     SaveAsNew => "save-as-new", "Save as a new recipe in the database under a new name";
     SaveVersion => "save-version", "Save as the next version of the recipe of this name in the database";
-    OpenRecipe => "open-recipe", "Open a recipe from the database";
-    OpenFile => "open-file", "Open a recipe from a TOML file";
+    OpenRecipe => "open-recipe", "Open a recipe from the database (asks first over unsaved changes)";
+    OpenFile => "open-file", "Open a recipe from a TOML file (asks first over unsaved changes)";
     ShowWarnings => "warnings", "Read every warning and caution in full";
     Search => "search", "Search the list by text";
     ClearFilter => "clear-filter", "Clear the search and filters";
@@ -116,6 +116,7 @@ commands! {
     Cancel => "cancel", "Back out without changing anything";
     Yes => "yes", "Yes";
     No => "no", "No";
+    SaveFirst => "save-first", "Save the recipe first, then go on";
     NextField => "next-field", "Go to the next field";
     PrevField => "prev-field", "Go to the previous field";
     CursorLeft => "cursor-left", "Move the text cursor left";
@@ -267,6 +268,8 @@ pub enum Effect {
         value: f64,
         /// Who measured.
         by: String,
+        /// Why, when the batch is signed off (the reading goes on its trail).
+        reason: Option<String>,
     },
     /// Add a note to a batch.
     AddNote {
@@ -276,6 +279,8 @@ pub enum Effect {
         text: String,
         /// Who wrote it.
         by: String,
+        /// Why, when the batch is signed off (the note goes on its trail).
+        reason: Option<String>,
     },
     /// Finalise (sign off) a batch.
     Finalize {

@@ -393,6 +393,12 @@ pub const KEYMAP: &[Binding] = &[
     // Questions.
     bind(CONFIRM, Key::ch('y'), Command::Yes, Some("yes")),
     bind(CONFIRM, Key::ch('n'), Command::No, Some("no")),
+    bind(
+        CONFIRM,
+        Key::ch('s'),
+        Command::SaveFirst,
+        Some("save first"),
+    ),
 ];
 
 /// The bindings that apply in exactly `context` (without the global fallback).

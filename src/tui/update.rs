@@ -11,7 +11,7 @@ use super::action::{Action, Command, Effect};
 use super::handlers::{
     balance, batch_forms, batches, characterise, ingredients, own_items, recipe, settings,
 };
-use super::state::{Overlay, PickerPurpose, Question, ReaderKind, Screen, State};
+use super::state::{AfterSave, Overlay, PickerPurpose, Question, ReaderKind, Screen, State};
 
 /// Applies one action to the state and returns the effects it asks for.
 pub fn update(state: &mut State, action: Action) -> Vec<Effect> {
@@ -32,7 +32,11 @@ pub fn update(state: &mut State, action: Action) -> Vec<Effect> {
         } => {
             recipe::saved(state, source, saved);
             state.tell(message);
-            Vec::new()
+            match state.recipe.after_save.take() {
+                Some(AfterSave::Quit) => vec![Effect::Quit],
+                Some(AfterSave::Open(from)) => recipe::open(state, from),
+                None => Vec::new(),
+            }
         }
         Action::RecipeList(entries) => {
             recipe::open_recipe_picker(state, entries);
@@ -86,6 +90,8 @@ pub fn update(state: &mut State, action: Action) -> Vec<Effect> {
         }
         Action::Failed(text) => {
             state.batches.loading = false;
+            // A save that failed does not go on to quit or open anything.
+            state.recipe.after_save = None;
             state.warn(text);
             Vec::new()
         }
@@ -172,11 +178,36 @@ fn overlay_update(state: &mut State, command: Command) -> Vec<Effect> {
         Overlay::Confirm(question) => match command {
             Command::Yes => match question {
                 Question::QuitUnsaved => vec![Effect::Quit],
+                Question::OpenUnsaved(from) => recipe::open(state, from),
                 Question::Finalize(code) => batches::finalize(state, code),
                 Question::TurnOnCorrection(kind) => batches::turn_on(state, &kind),
                 Question::TurnOffCorrection(kind) => batches::turn_off(state, &kind),
+                Question::LargeChange {
+                    purpose,
+                    title,
+                    text,
+                    ..
+                } => apply_prompt(state, reopened(purpose, title, text)),
             },
-            Command::No | Command::Cancel => Vec::new(),
+            Command::SaveFirst if question.offers_save() => {
+                state.recipe.after_save = Some(match question {
+                    Question::OpenUnsaved(from) => AfterSave::Open(from),
+                    _ => AfterSave::Quit,
+                });
+                recipe::save(state)
+            }
+            Command::No | Command::Cancel => {
+                if let Question::LargeChange {
+                    purpose,
+                    title,
+                    text,
+                    ..
+                } = question
+                {
+                    state.overlay = Some(Overlay::Prompt(reopened(purpose, title, text)));
+                }
+                Vec::new()
+            }
             _ => {
                 state.overlay = Some(Overlay::Confirm(question));
                 Vec::new()
@@ -317,11 +348,35 @@ fn focused_input(overlay: &mut Overlay) -> Option<&mut Input> {
 }
 
 /// Applies a text request to the field in focus, then lets the overlay react
-/// (live search, picker matches, field checks).
+/// (live search, picker matches, field checks). A prompt's selected old value is
+/// replaced by what is typed, cleared by a deletion, and kept by a cursor move.
 fn edit_text(state: &mut State, request: InputRequest) {
     let Some(overlay) = state.overlay.as_mut() else {
         return;
     };
+    if let Overlay::Prompt(p) = overlay
+        && p.selected
+    {
+        p.selected = false;
+        let replaces = !matches!(
+            request,
+            InputRequest::GoToPrevChar
+                | InputRequest::GoToNextChar
+                | InputRequest::GoToStart
+                | InputRequest::GoToEnd
+        );
+        if replaces {
+            p.input = Input::default();
+            if matches!(request, InputRequest::InsertChar(_)) {
+                p.input.handle(request);
+            }
+            p.error = None;
+            let live = p.input.value().to_string();
+            let purpose = p.purpose.clone();
+            live_prompt(state, &purpose, &live);
+            return;
+        }
+    }
     let Some(input) = focused_input(overlay) else {
         return;
     };
@@ -361,6 +416,10 @@ fn live_prompt(state: &mut State, purpose: &super::state::PromptPurpose, text: &
 
 fn cancel_prompt(state: &mut State, purpose: &super::state::PromptPurpose) {
     use super::state::PromptPurpose as P;
+    if matches!(purpose, P::SaveAsName) {
+        // Backing out of the name backs out of a "save first" too.
+        state.recipe.after_save = None;
+    }
     if matches!(purpose, P::IngredientSearch) {
         ingredients::set_filter(state, "");
     }
@@ -369,7 +428,46 @@ fn cancel_prompt(state: &mut State, purpose: &super::state::PromptPurpose) {
     }
 }
 
+/// A prompt opened again on text typed before (after a question about it).
+fn reopened(
+    purpose: super::state::PromptPurpose,
+    title: String,
+    text: String,
+) -> super::state::Prompt {
+    super::state::Prompt {
+        purpose,
+        title,
+        input: Input::new(text),
+        error: None,
+        selected: false,
+    }
+}
+
+/// Accepts a prompt, asking first when its value is more than ten times the old.
 fn accept_prompt(state: &mut State, prompt: super::state::Prompt) -> Vec<Effect> {
+    use super::state::PromptPurpose as P;
+    let text = prompt.input.value().to_string();
+    let large = match &prompt.purpose {
+        P::LineAmount(_) | P::ScaleTotal | P::ServingTarget => {
+            recipe::large_change(state, &prompt.purpose, &text)
+        }
+        P::Setting(field) => settings::large_change(state, *field, &text),
+        _ => None,
+    };
+    if let Some(said) = large {
+        state.overlay = Some(Overlay::Confirm(Question::LargeChange {
+            purpose: prompt.purpose,
+            title: prompt.title,
+            text,
+            said,
+        }));
+        return Vec::new();
+    }
+    apply_prompt(state, prompt)
+}
+
+/// Applies a prompt's text; a refusal keeps the prompt open with the reason.
+fn apply_prompt(state: &mut State, prompt: super::state::Prompt) -> Vec<Effect> {
     use super::state::PromptPurpose as P;
     let text = prompt.input.value().to_string();
     let outcome = match &prompt.purpose {
@@ -394,6 +492,7 @@ fn accept_prompt(state: &mut State, prompt: super::state::Prompt) -> Vec<Effect>
         Err(reason) => {
             state.overlay = Some(Overlay::Prompt(super::state::Prompt {
                 error: Some(reason),
+                selected: false,
                 ..prompt
             }));
             Vec::new()
@@ -405,7 +504,9 @@ fn check_form(state: &State, form: &mut super::state::Form) {
     use super::state::FormPurpose as F;
     match &form.purpose {
         F::Ingredient(_) | F::Solute(_) => own_items::check_form(state, form),
-        F::Batch | F::Measurement(_) | F::Amend(_) => batch_forms::check_form(state, form),
+        F::Batch | F::Measurement(_) | F::TrailNote(_) | F::Amend(_) => {
+            batch_forms::check_form(state, form)
+        }
         F::Characterise => characterise::check_form(state, form),
     }
 }
@@ -415,7 +516,9 @@ fn submit_form(state: &mut State, mut form: super::state::Form) -> Vec<Effect> {
     check_form(state, &mut form);
     let outcome = match &form.purpose {
         F::Ingredient(_) | F::Solute(_) => own_items::submit(state, &form),
-        F::Batch | F::Measurement(_) | F::Amend(_) => batch_forms::submit(state, &form),
+        F::Batch | F::Measurement(_) | F::TrailNote(_) | F::Amend(_) => {
+            batch_forms::submit(state, &form)
+        }
         F::Characterise => characterise::submit(state, &form),
     };
     match outcome {

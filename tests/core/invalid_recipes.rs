@@ -284,3 +284,33 @@ fn cabinet_above_zero() {
         &["cabinet_temp_c", "between 0 and -60", "12"],
     );
 }
+
+#[test]
+fn an_absurd_amount_is_refused_where_it_is_written() {
+    check("absurd-amount.toml", 5, 6, &["sucrose", "1000 t"]);
+}
+
+#[test]
+fn amounts_whose_sum_would_overflow_are_refused_at_the_first() {
+    check("amounts-that-overflow.toml", 5, 5, &["sucrose", "1000 t"]);
+}
+
+#[test]
+fn a_sweetness_that_is_not_a_number_is_refused() {
+    check("nan-sweetness.toml", 7, 13, &["sweetness"]);
+}
+
+#[test]
+fn an_absurd_molar_mass_is_refused() {
+    check("absurd-molar-mass.toml", 6, 20, &["molar_mass_g_mol"]);
+}
+
+#[test]
+fn an_absurd_density_is_refused_where_it_is_written() {
+    check("absurd-density.toml", 8, 16, &["density_g_ml"]);
+}
+
+#[test]
+fn a_name_with_control_characters_is_refused() {
+    check("control-character-name.toml", 1, 8, &["control character"]);
+}

@@ -2,31 +2,17 @@
 //! files: the JSON contract, measurements against predictions, the amendment trail,
 //! export and import through files, checks and backups, and clear refusals.
 
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 use assert_cmd::Command;
 use serde_json::Value;
 
-use crate::batch_common::VANILLA;
+use crate::batch_common::{VANILLA, gelu_cmd as gelu, run_ok};
 
 const LIQUEUR: &str = concat!(
     env!("CARGO_MANIFEST_DIR"),
     "/sample-recipes/strawberry-liqueur.toml"
 );
-
-fn gelu(db: &Path) -> Command {
-    Command::from_std(crate::batch_common::gelu(db))
-}
-
-fn run_ok(db: &Path, args: &[&str]) -> String {
-    let out = gelu(db).args(args).output().unwrap();
-    assert!(
-        out.status.success(),
-        "gelu {args:?} failed: {}",
-        String::from_utf8_lossy(&out.stderr)
-    );
-    String::from_utf8(out.stdout).unwrap()
-}
 
 fn new_db() -> (tempfile::TempDir, PathBuf) {
     let dir = tempfile::tempdir().unwrap();
@@ -282,16 +268,35 @@ fn export_and_import_through_files_and_csv() {
         .unwrap();
     assert!(String::from_utf8_lossy(&out.stdout).contains("0 imported, 2 skipped"));
 
+    // CSV: one row per event, the header first.
     let csv = run_ok(&db, &["batch", "export", "--format", "csv"]);
-    let mut rows = csv.lines();
     assert!(
-        rows.next()
-            .unwrap()
-            .starts_with("code,recipe,recipe_version,made_at")
+        csv.starts_with(
+            "code,recipe,recipe_version,event,number,at,by,item,value,unit,lot,struck,text\n"
+        ),
+        "{csv}"
     );
-    let first = rows.next().unwrap();
-    assert!(first.contains("\"line, with comma\""), "{first}");
-    assert!(first.contains(",6.4,"), "{first}");
+    let rows = crate::batch_common::csv_rows(&csv);
+    let notes: Vec<&Vec<String>> = rows.iter().filter(|r| r[3] == "note").collect();
+    assert_eq!(notes.len(), 2);
+    assert_eq!(
+        notes[0][12], "line, with comma",
+        "quoted, then read back whole"
+    );
+    assert!(csv.contains(",\"line, with comma\""), "{csv}");
+    let ph: Vec<&Vec<String>> = rows
+        .iter()
+        .filter(|r| r[3] == "reading" && r[7] == "ph")
+        .collect();
+    assert_eq!(ph.len(), 2);
+    assert!(
+        ph.iter().all(|r| r[8] == "6.4" && r[6] == "tester"),
+        "{ph:?}"
+    );
+    assert!(
+        rows[1..].iter().all(|r| r.len() == 13),
+        "every row has every column"
+    );
 }
 
 #[test]

@@ -70,3 +70,82 @@ pub fn record(
     .unwrap();
     store.new_batch(&new).unwrap()
 }
+
+/// The rows of a CSV text (RFC 4180: quoted fields may hold commas, quotes and
+/// line breaks), header first.
+pub fn csv_rows(text: &str) -> Vec<Vec<String>> {
+    let mut rows = Vec::new();
+    let mut row = Vec::new();
+    let mut field = String::new();
+    let mut quoted = false;
+    let mut chars = text.chars().peekable();
+    while let Some(c) = chars.next() {
+        match (quoted, c) {
+            (true, '"') if chars.peek() == Some(&'"') => {
+                chars.next();
+                field.push('"');
+            }
+            (true, '"') => quoted = false,
+            (true, c) => field.push(c),
+            (false, '"') => quoted = true,
+            (false, ',') => row.push(std::mem::take(&mut field)),
+            (false, '\n') => {
+                row.push(std::mem::take(&mut field));
+                rows.push(std::mem::take(&mut row));
+            }
+            (false, '\r') => {}
+            (false, c) => field.push(c),
+        }
+    }
+    if !field.is_empty() || !row.is_empty() {
+        row.push(field);
+        rows.push(row);
+    }
+    rows
+}
+
+/// [`gelu`] as an assert_cmd command.
+pub fn gelu_cmd(db: &Path) -> assert_cmd::Command {
+    assert_cmd::Command::from_std(gelu(db))
+}
+
+/// Runs `gelu --db DB ARGS`, which must succeed; returns what it printed.
+pub fn run_ok(db: &Path, args: &[&str]) -> String {
+    let out = gelu_cmd(db).args(args).output().unwrap();
+    assert!(
+        out.status.success(),
+        "gelu {args:?} failed: {}{}",
+        String::from_utf8_lossy(&out.stdout),
+        String::from_utf8_lossy(&out.stderr)
+    );
+    String::from_utf8(out.stdout).unwrap()
+}
+
+/// Runs `gelu --db DB ARGS`, which must fail with exit code 2; returns its stderr.
+pub fn run_err(db: &Path, args: &[&str]) -> String {
+    let out = gelu_cmd(db).args(args).output().unwrap();
+    assert_eq!(out.status.code(), Some(2), "gelu {args:?} should fail");
+    String::from_utf8(out.stderr).unwrap()
+}
+
+/// Makes a file immutable (`chattr +i`) for as long as it lives: even root cannot
+/// write it (root ignores permission bits). `None` where chattr is not available.
+pub struct Immutable(std::path::PathBuf);
+
+impl Immutable {
+    /// Sets the flag on `path`.
+    pub fn set(path: &Path) -> Option<Immutable> {
+        let ok = Command::new("chattr")
+            .arg("+i")
+            .arg(path)
+            .status()
+            .is_ok_and(|s| s.success());
+        ok.then(|| Immutable(path.to_path_buf()))
+    }
+}
+
+impl Drop for Immutable {
+    fn drop(&mut self) {
+        let _ = Command::new("chattr").arg("-i").arg(&self.0).status();
+    }
+}

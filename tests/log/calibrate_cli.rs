@@ -28,6 +28,7 @@ fn vanilla_batches(db: &Path, n: usize, offset: f64) {
                 &b.code,
                 &[(MeasurementKind::FreezingPointC, predicted + offset)],
                 "Ines Harrow",
+                None,
             )
             .unwrap();
     }

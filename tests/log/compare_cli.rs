@@ -31,7 +31,7 @@ fn record(store: &mut Store, file: &str, day: i64) -> Batch {
 fn measure_off(store: &mut Store, b: &Batch, kind: MeasurementKind, key: &str, offset: f64) {
     let predicted = b.prediction[key].as_f64().unwrap();
     store
-        .add_measurements(&b.code, &[(kind, predicted + offset)], "Ines Harrow")
+        .add_measurements(&b.code, &[(kind, predicted + offset)], "Ines Harrow", None)
         .unwrap();
 }
 

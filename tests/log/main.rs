@@ -7,11 +7,15 @@ mod store_common;
 
 mod batch_cli;
 mod batch_processes;
+mod batch_trail;
 mod calibrate_cli;
 mod characterise_cli;
 mod cli_balance;
+mod cli_edges;
 mod cli_report;
 mod compare_cli;
+mod db_check;
+mod import_refusals;
 mod own_items_cli;
 mod store_import;
 mod store_migrate;

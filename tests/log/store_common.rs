@@ -29,3 +29,18 @@ pub fn search(store: &Store, words: &str) -> Vec<String> {
         .map(|b| b.code)
         .collect()
 }
+
+/// Hands out `good` bytes, then fails as a broken disk or pipe would.
+pub struct FailingAfter {
+    /// What is read before the failure.
+    pub good: std::io::Cursor<Vec<u8>>,
+}
+
+impl std::io::Read for FailingAfter {
+    fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
+        match self.good.read(buf)? {
+            0 => Err(std::io::Error::other("the disk went away")),
+            n => Ok(n),
+        }
+    }
+}

@@ -17,7 +17,7 @@ use gelu::samples::SAMPLE_RECIPES;
 use gelu::store::Store;
 use rusqlite::Connection;
 
-use crate::store_common::search;
+use crate::store_common::{FailingAfter, search};
 
 fn fresh(dir: &Path, name: &str) -> Store {
     Store::open(&dir.join(name)).unwrap()
@@ -167,20 +167,6 @@ fn search_finds_imported_lots_alone_or_together() {
         assert_eq!(search(store, "template"), code);
         assert!(search(store, "M-2609-02").is_empty());
         assert!(search(store, "M-2609-01 Z-0000").is_empty());
-    }
-}
-
-/// Hands out `good` lines, then fails as a broken disk or pipe would.
-struct FailingAfter {
-    good: std::io::Cursor<Vec<u8>>,
-}
-
-impl std::io::Read for FailingAfter {
-    fn read(&mut self, buf: &mut [u8]) -> std::io::Result<usize> {
-        match self.good.read(buf)? {
-            0 => Err(std::io::Error::other("the disk went away")),
-            n => Ok(n),
-        }
     }
 }
 

@@ -106,13 +106,8 @@ fn the_command_line_says_when_it_upgraded_a_log_and_where_the_copy_is() {
     let first = run();
     assert!(first.status.success());
     let said = String::from_utf8_lossy(&first.stderr);
-    assert!(
-        said.contains(&format!(
-            "upgraded from schema version 1 to {}",
-            latest_version()
-        )),
-        "{said}"
-    );
+    let upgraded = format!("upgraded from schema version 1 to {}", latest_version());
+    assert!(said.contains(&upgraded), "{said}");
     assert!(said.contains(".bak"), "{said}");
     assert!(String::from_utf8_lossy(&first.stdout).contains("B-20261202-0001"));
     let second = run();
@@ -135,8 +130,14 @@ fn migration_2_drops_only_the_json_check_and_every_connection_sees_it() {
     // Migration 2 alone (the later sections add tables and columns of their own).
     let mut conn = Connection::open(&path).unwrap();
     let steps = gelu::store::migrate::migrations();
-    let migrated =
-        gelu::store::migrate::migrate(&mut conn, &path, &steps[..2], &|_| Ok(())).unwrap();
+    let migrated = {
+        let nothing = |_: &rusqlite::Transaction| Ok(());
+        let hooks = gelu::store::migrate::Hooks {
+            seed: &nothing,
+            after: &nothing,
+        };
+        gelu::store::migrate::migrate(&mut conn, &path, &steps[..2], &hooks).unwrap()
+    };
     assert_eq!((migrated.from, migrated.to), (1, 2));
     drop(conn);
     let sql = table_sql(&early, "batch_predictions");
@@ -145,7 +146,10 @@ fn migration_2_drops_only_the_json_check_and_every_connection_sees_it() {
     // Every other table, index and trigger is as it was (later migrations may add more).
     let after = other_objects(&early);
     for object in &before {
-        assert!(after.contains(object), "changed or gone: {object}");
+        assert!(
+            after.contains(object),
+            "every other table, index and trigger is as it was: {object}"
+        );
     }
 
     // The early connection writes under the new schema: the snapshot text is no
@@ -221,4 +225,101 @@ fn a_version_2_log_opens_and_exports_exactly_what_version_2_exported() {
     );
     assert!(store.check().unwrap().is_empty(), "{:?}", store.check());
     assert_eq!(search(&store, "WM-4477"), ["B-20261202-0001"]);
+}
+
+/// The migration after version 2 on the version 2 fixture: what was recorded after
+/// sign-off under version 2 stays where it was, with its own time; from now on a
+/// signed-off record takes readings and notes only on its trail; every signed-off
+/// record is sealed as it stood at the upgrade, so a later change behind gelu's back
+/// is named; and a recipe with versions keeps its name.
+#[test]
+fn a_version_2_log_keeps_its_late_readings_and_is_sealed_and_guarded_after_the_upgrade() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = dir.path().join("log.db");
+    std::fs::copy(V2_DB, &path).unwrap();
+    let mut store = Store::open(&path).unwrap();
+    assert_eq!(store.migration().from, 2);
+    let vanilla = store.batch("B-20261202-0001").unwrap().unwrap();
+    let late = &vanilla.measurements[3];
+    assert_eq!(
+        (late.value, late.struck),
+        (-5.6, false),
+        "the late reading stays"
+    );
+    assert!(
+        late.taken_at > vanilla.finalized_at.unwrap(),
+        "with its own time"
+    );
+    assert_eq!(vanilla.notes.len(), 2);
+
+    // Readings now go on the trail, with a reason.
+    let refused = store.add_measurement(
+        "B-20261202-0001",
+        gelu::batch::MeasurementKind::Brix,
+        32.0,
+        "Ines",
+        None,
+    );
+    assert!(refused.is_err());
+    store
+        .add_measurement(
+            "B-20261202-0001",
+            gelu::batch::MeasurementKind::Brix,
+            32.0,
+            "Ines",
+            Some("read again after the upgrade"),
+        )
+        .unwrap();
+    let now = store.batch("B-20261202-0001").unwrap().unwrap();
+    assert_eq!(now.measurements.len(), 5);
+    assert_eq!(now.amendments.len(), 2);
+    assert!(store.check().unwrap().is_empty(), "{:?}", store.check());
+    drop(store);
+
+    let conn = Connection::open(&path).unwrap();
+    let seals: Vec<(String, i64)> = conn
+        .prepare(
+            "SELECT b.code, s.amendments FROM batch_seals s JOIN batches b ON b.id = s.batch_id
+             ORDER BY b.code, s.amendments",
+        )
+        .unwrap()
+        .query_map([], |r| Ok((r.get(0)?, r.get(1)?)))
+        .unwrap()
+        .collect::<rusqlite::Result<_>>()
+        .unwrap();
+    assert_eq!(
+        seals,
+        [
+            ("B-20261202-0001".to_owned(), 1),
+            ("B-20261202-0001".to_owned(), 2),
+            ("B-20261202-0002".to_owned(), 0)
+        ],
+        "sealed at the upgrade as they stood, then at the new entry; the draft is not"
+    );
+    let measured: i64 = conn
+        .query_row(
+            "SELECT count(*) FROM measurements m JOIN batches b ON b.id = m.batch_id
+             WHERE b.code = 'B-20261202-0001'",
+            [],
+            |r| r.get(0),
+        )
+        .unwrap();
+    assert_eq!(
+        measured, 4,
+        "the new reading is on the trail, not in the table"
+    );
+    for sql in [
+        "INSERT INTO measurements (batch_id, kind, value, unit, taken_at, taken_by)
+         SELECT id, 'brix', 1.0, '°Bx', made_at, 'x' FROM batches WHERE code = 'B-20261202-0002'",
+        "INSERT INTO batch_notes (batch_id, text, written_at, written_by)
+         SELECT id, 'late', made_at, 'x' FROM batches WHERE code = 'B-20261202-0002'",
+        "UPDATE recipes SET name = 'Another name' WHERE name = 'Harbour vanilla'",
+        "DELETE FROM batch_seals",
+    ] {
+        let err = conn.execute(sql, []).unwrap_err().to_string();
+        assert!(
+            err.contains("trail") || err.contains("never"),
+            "{sql}: {err}"
+        );
+    }
 }

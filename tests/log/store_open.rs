@@ -1,11 +1,13 @@
 //! Opening the batch log on real temporary files: creation from nothing and from
 //! an empty SQLite file (schema version 0), the sample seed, connection settings,
-//! and the files that must be refused untouched (too new, another program's, not a
-//! database, read-only).
+//! and the files that must be refused untouched (zero bytes, too new, another
+//! program's, not a database, read-only for writing).
 
 use gelu::store::migrate::latest_version;
 use gelu::store::{Store, StoreError};
 use rusqlite::Connection;
+
+use crate::batch_common::Immutable;
 
 fn pragma_i64(conn: &Connection, name: &str) -> i64 {
     conn.query_row(&format!("PRAGMA {name}"), [], |r| r.get(0))
@@ -46,14 +48,21 @@ fn a_new_file_is_created_migrated_and_seeded() {
 }
 
 #[test]
-fn an_empty_sqlite_file_at_version_zero_is_migrated() {
+fn a_zero_byte_file_is_refused_and_an_empty_sqlite_file_at_version_zero_is_migrated() {
     let dir = tempfile::tempdir().unwrap();
+    // A log is never empty: a file of zero bytes is a truncated log, not a new one.
     let empty = dir.path().join("empty.db");
     std::fs::write(&empty, b"").unwrap();
-    let store = Store::open(&empty).unwrap();
-    assert_eq!(store.migration().from, 0);
-    assert!(store.check().unwrap().is_empty());
+    let err = Store::open(&empty).unwrap_err();
+    assert!(matches!(err, StoreError::EmptyFile { .. }), "{err}");
+    assert!(
+        err.to_string().contains("restore it from a backup"),
+        "{err}"
+    );
+    assert_eq!(std::fs::metadata(&empty).unwrap().len(), 0);
+    assert!(Store::open_read_only(&empty).is_err());
 
+    // An SQLite file with nothing in it (made by another tool) becomes a log.
     let vacuumed = dir.path().join("v0.db");
     let conn = Connection::open(&vacuumed).unwrap();
     conn.execute_batch("PRAGMA user_version = 0; VACUUM;")
@@ -121,30 +130,6 @@ fn a_file_that_is_not_a_database_is_refused_untouched() {
     assert!(matches!(err, StoreError::NotADatabase { .. }), "{err}");
     assert!(err.to_string().contains("Nothing was changed"));
     assert_eq!(std::fs::read_to_string(&path).unwrap(), text);
-}
-
-/// Makes a file immutable (`chattr +i`) for as long as it lives; root ignores
-/// permission bits but not this.
-struct Immutable(std::path::PathBuf);
-
-impl Immutable {
-    fn set(path: &std::path::Path) -> Option<Immutable> {
-        let ok = std::process::Command::new("chattr")
-            .arg("+i")
-            .arg(path)
-            .status()
-            .is_ok_and(|s| s.success());
-        ok.then(|| Immutable(path.to_path_buf()))
-    }
-}
-
-impl Drop for Immutable {
-    fn drop(&mut self) {
-        let _ = std::process::Command::new("chattr")
-            .arg("-i")
-            .arg(&self.0)
-            .status();
-    }
 }
 
 #[test]

@@ -164,10 +164,11 @@ fn final_records_are_amended_never_changed() {
                 (MeasurementKind::DrawTempC, -6.4),
             ],
             "Ines",
+            None,
         )
         .unwrap();
     store
-        .add_note(&b.code, "overrun checked twice", "Ines")
+        .add_note(&b.code, "overrun checked twice", "Ines", None)
         .unwrap();
     let fin = store.finalize(&b.code, "Head cook").unwrap();
     assert_eq!(fin.status, Status::Final);
@@ -356,6 +357,7 @@ fn export_import_export_gives_identical_lines() {
                 MeasurementKind::OverrunPct,
                 31.0 + f64::from(day) / 7.0,
                 "Ines",
+                None,
             )
             .unwrap();
         if day % 2 == 0 {
@@ -383,7 +385,7 @@ fn export_import_export_gives_identical_lines() {
     edited.recipe_text = edited.recipe_text.replace("g = 480", "g = 470");
     assert_eq!(store.new_batch(&edited).unwrap().recipe.version, 2);
     store
-        .add_measurement(&liqueur.code, MeasurementKind::AbvPct, 20.1, "Jon")
+        .add_measurement(&liqueur.code, MeasurementKind::AbvPct, 20.1, "Jon", None)
         .unwrap();
 
     let first = export(&store);
@@ -432,6 +434,8 @@ fn a_malformed_import_line_is_reported_and_nothing_of_it_written() {
         "changes": [{"field": "lot", "line": 99, "ingredient": "sucrose", "old": "", "new": "Z"}]
     }]);
     bad_line_ref["status"] = "amended".into();
+    bad_line_ref["finalized_at"] = "2026-11-30T09:00:00.000Z".into();
+    bad_line_ref["finalized_by"] = "Head cook".into();
     let input = [
         lines[0].clone(),
         "{ this is not json".to_owned(),
@@ -525,7 +529,7 @@ fn searches_with_many_matches_page_like_a_plain_filter() {
 
     // Notes and amendments written later are found too.
     store
-        .add_note("B-IMPORT-00003", "seized the dasher", "Ines")
+        .add_note("B-IMPORT-00003", "seized the dasher", "Ines", None)
         .unwrap();
     store
         .amend(

@@ -185,6 +185,8 @@ pub fn synthetic(i: usize, site: &str, recipe: &gelu::batch::RecipeVersion) -> g
     let at = Utc.with_ymd_and_hms(2026, 11, 1, 6, 0, 0).unwrap()
         + Duration::minutes(i as i64)
         + Duration::milliseconds(offset_ms);
+    let amended = i.is_multiple_of(10);
+    // The record as it stands: an amended batch shows its corrected sucrose lot.
     let lines = ["whole-milk", "heavy-cream", "sucrose", "skim-milk-powder"]
         .iter()
         .enumerate()
@@ -192,10 +194,13 @@ pub fn synthetic(i: usize, site: &str, recipe: &gelu::batch::RecipeVersion) -> g
             ingredient: (*ing).to_owned(),
             planned_g: 500.0,
             actual_g: Some(500.0 + (i % 3) as f64),
-            lot: format!("L{k}-{:05}", i / 50),
+            lot: if amended && k == 2 {
+                "S-FIXED".to_owned()
+            } else {
+                format!("L{k}-{:05}", i / 50)
+            },
         })
         .collect();
-    let amended = i.is_multiple_of(10);
     let final_ = amended || i.is_multiple_of(3);
     Batch {
         code: format!("B-{}-{site}-{:05}", at.format("%Y%m%d"), i),
@@ -218,11 +223,13 @@ pub fn synthetic(i: usize, site: &str, recipe: &gelu::batch::RecipeVersion) -> g
             value: -6.0 - (i % 20) as f64 / 10.0,
             taken_at: at,
             by: "cook".into(),
+            struck: false,
         }],
         notes: vec![Note {
             text: format!("batch {i} of {site}"),
             written_at: at,
             by: "cook".into(),
+            struck: false,
         }],
         amendments: if amended {
             vec![Amendment {

@@ -463,9 +463,12 @@ fn the_measurement_loop_runs_against_the_log() {
             let p = b.prediction["freezing_point_c"]
                 .as_f64()
                 .unwrap_or(f64::NAN);
-            if let Err(e) =
-                store.add_measurements(&b.code, &[(MeasurementKind::FreezingPointC, p + 0.2)], "RW")
-            {
+            if let Err(e) = store.add_measurements(
+                &b.code,
+                &[(MeasurementKind::FreezingPointC, p + 0.2)],
+                "RW",
+                None,
+            ) {
                 panic!("{e}");
             }
         }
@@ -590,4 +593,47 @@ fn settings_stored_by_earlier_releases_keep_their_meaning() {
     assert_eq!(s.settings.serving_frozen_fraction, 0.6);
     assert_eq!(s.settings.cabinet_temp_c, -11.5);
     assert_eq!(s.settings.temp_unit, TempUnit::Fahrenheit);
+}
+
+#[test]
+fn a_recipe_the_reader_would_refuse_is_never_saved() {
+    let dir = tempdir();
+    let (state, mut services) = open(&dir.path().join("log.db"), None);
+    let mut recipe = state.recipe.recipe.clone();
+    recipe.name = "Not a number".into();
+    recipe.solutes.push(gelu::model::Solute {
+        id: "house-polyol".into(),
+        name: "House polyol".into(),
+        kind: gelu::model::SoluteKind::Other,
+        molar_mass_g_mol: 182.17,
+        dissociation: 1.0,
+        model: gelu::thermo::binary::WaterModel::Ideal { norrish_k: 0.0 },
+        sweetness: Some(f64::NAN),
+        solubility_g_per_100g_water_0c: None,
+        source: "test".into(),
+    });
+    let actions = services.perform(gelu::tui::Effect::SaveNewRecipe(recipe.clone()));
+    assert!(
+        matches!(&actions[..], [Action::Failed(m)] if m.contains("sweetness")),
+        "{actions:?}"
+    );
+    let listed = services.perform(gelu::tui::Effect::ListRecipes);
+    let [Action::RecipeList(entries)] = &listed[..] else {
+        panic!("{listed:?}");
+    };
+    assert!(
+        entries.iter().all(|e| e.name != "Not a number"),
+        "{entries:?}"
+    );
+    let file = dir.path().join("nan.toml");
+    let actions = services.perform(gelu::tui::Effect::SaveFile {
+        path: file.clone(),
+        original: None,
+        recipe,
+    });
+    assert!(matches!(&actions[..], [Action::Failed(_)]), "{actions:?}");
+    assert!(
+        !file.exists(),
+        "nothing is written that would not read back"
+    );
 }

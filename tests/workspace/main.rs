@@ -7,6 +7,7 @@ mod common;
 mod balance;
 mod cautions;
 mod effects;
+mod keep_work;
 mod keymap;
 mod measure_loop;
 mod pty;

@@ -156,6 +156,7 @@ fn a_cryoscope_reading_in_hortvet_is_accepted() {
             comparisons: Vec::new(),
             measurements: Vec::new(),
             notes: Vec::new(),
+            trail: Vec::new(),
         })),
     );
     cmd(&mut s, Command::AddMeasurement);

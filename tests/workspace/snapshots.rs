@@ -5,7 +5,9 @@
 
 use crate::common::{cmd, draw, liqueur_state, loaded_state, type_text};
 use gelu::batch::compare::{Calibrated, Comparison, PredictedFrom};
-use gelu::tui::state::{BatchDetailView, BatchPage, BatchRow, MeasurementRow, State, SyncView};
+use gelu::tui::state::{
+    BatchDetailView, BatchPage, BatchRow, MeasurementRow, State, SyncView, TrailRow,
+};
 use gelu::tui::{Action, Command, update};
 use ratatui::Terminal;
 use ratatui::backend::TestBackend;
@@ -104,17 +106,36 @@ fn with_detail() -> State {
                     likely_causes: Vec::new(),
                 },
             ],
-            measurements: vec![MeasurementRow {
-                at: "2026-12-01 10:12".into(),
-                kind,
-                value: -2.9,
-                by: "RW".into(),
-            }],
+            measurements: vec![
+                MeasurementRow {
+                    at: "2026-12-01 10:10".into(),
+                    kind,
+                    value: -9.2,
+                    by: "RW".into(),
+                    struck: true,
+                },
+                MeasurementRow {
+                    at: "2026-12-01 10:12".into(),
+                    kind,
+                    value: -2.9,
+                    by: "RW".into(),
+                    struck: false,
+                },
+            ],
             notes: vec![(
                 "2026-12-01 09:30".into(),
                 "RW".into(),
                 "Aged 12 h at 4 °C in the cold room by the slipway".into(),
             )],
+            trail: vec![TrailRow {
+                at: "2026-12-01 11:40".into(),
+                by: "KM".into(),
+                reason: "probe left in the wrong tub".into(),
+                changes: vec![
+                    "reading 1 struck out: freezing-point-c -9.2 °C (RW, 2026-12-01 10:10 UTC)"
+                        .into(),
+                ],
+            }],
         })),
     );
     s

@@ -563,6 +563,7 @@ fn open_detail(s: &mut gelu::tui::State, finalized: bool) {
             comparisons: Vec::new(),
             measurements: Vec::new(),
             notes: Vec::new(),
+            trail: Vec::new(),
         })),
     );
 }
@@ -678,7 +679,8 @@ fn notes_measurements_and_sign_off_need_an_operator() {
         vec![Effect::AddNote {
             code: "B-20261201-0001".into(),
             text: "Aged 12 h at 4 °C".into(),
-            by: "RW".into()
+            by: "RW".into(),
+            reason: None,
         }]
     );
     cmd(&mut s, Command::AddMeasurement);
@@ -708,6 +710,55 @@ fn notes_measurements_and_sign_off_need_an_operator() {
     );
     cmd(&mut s, Command::Cancel);
     assert!(s.batches.detail.is_none(), "Esc goes back to the list");
+}
+
+#[test]
+fn on_a_signed_off_batch_a_note_or_a_reading_goes_on_the_trail_with_a_reason() {
+    let mut s = loaded_state();
+    s.settings.operator = "RW".into();
+    cmd(&mut s, Command::ShowBatches);
+    open_detail(&mut s, true);
+    cmd(&mut s, Command::AddNote);
+    assert!(
+        matches!(&s.overlay, Some(Overlay::Form(_))),
+        "a form with the reason, not the one-line prompt"
+    );
+    fill(&mut s, &["Tasted after hardening: fine"]);
+    assert!(
+        cmd(&mut s, Command::Confirm).is_empty(),
+        "the reason is required"
+    );
+    assert!(
+        form_problems(&s)
+            .iter()
+            .any(|(l, _)| l.starts_with("Reason"))
+    );
+    if let Some(Overlay::Form(f)) = &mut s.overlay {
+        f.focus = 1;
+    }
+    fill(&mut s, &["tasting the next day"]);
+    assert_eq!(
+        cmd(&mut s, Command::Confirm),
+        vec![Effect::AddNote {
+            code: "B-20261201-0001".into(),
+            text: "Tasted after hardening: fine".into(),
+            by: "RW".into(),
+            reason: Some("tasting the next day".into()),
+        }]
+    );
+    cmd(&mut s, Command::AddMeasurement);
+    type_text(&mut s, "31");
+    assert!(
+        cmd(&mut s, Command::Confirm).is_empty(),
+        "the reason is required"
+    );
+    cmd(&mut s, Command::NextField);
+    type_text(&mut s, "read again");
+    let effects = cmd(&mut s, Command::Confirm);
+    assert!(
+        matches!(&effects[..], [Effect::AddMeasurement { reason: Some(r), value, .. }] if r == "read again" && *value == 31.0),
+        "{effects:?}"
+    );
 }
 
 #[test]

@@ -81,7 +81,8 @@ pub enum BatchCommand {
         #[arg(long)]
         json: bool,
     },
-    /// Record measurements: brix=31.5 ph=3.4 draw-temp-c=-6.5 ...
+    /// Record measurements: brix=31.5 ph=3.4 draw-temp-c=-6.5 ... (on a signed-off
+    /// batch they go on its amendment trail, with --reason)
     Measure {
         /// Batch code.
         code: String,
@@ -91,8 +92,12 @@ pub enum BatchCommand {
         /// Who measured (default: the login name).
         #[arg(long, value_name = "NAME")]
         by: Option<String>,
+        /// Why readings are added after sign-off (required then; kept on the trail).
+        #[arg(long, value_name = "TEXT")]
+        reason: Option<String>,
     },
-    /// Add a note (deviation, corrective action, tasting).
+    /// Add a note (deviation, corrective action, tasting); on a signed-off batch it
+    /// goes on its amendment trail, with --reason.
     Note {
         /// Batch code.
         code: String,
@@ -101,6 +106,9 @@ pub enum BatchCommand {
         /// Who writes it (default: the login name).
         #[arg(long, value_name = "NAME")]
         by: Option<String>,
+        /// Why a note is added after sign-off (required then; kept on the trail).
+        #[arg(long, value_name = "TEXT")]
+        reason: Option<String>,
     },
     /// Sign a batch off: from then on it is corrected only by amendments.
     Finalize {
@@ -120,15 +128,8 @@ pub enum BatchCommand {
         /// Who amends (default: the login name).
         #[arg(long, value_name = "NAME")]
         by: Option<String>,
-        /// The corrected operator's name.
-        #[arg(long, value_name = "NAME")]
-        operator: Option<String>,
-        /// The weighed mass of a line in g, repeatable: --actual sucrose=812.
-        #[arg(long = "actual", value_name = "INGREDIENT=G")]
-        actuals: Vec<String>,
-        /// The supplier lot of a line, repeatable: --lot whole-milk=M-2612-04.
-        #[arg(long = "lot", value_name = "INGREDIENT=LOT")]
-        lots: Vec<String>,
+        #[command(flatten)]
+        corrections: Corrections,
     },
     /// Predicted against measured over the log, per kind: count, bias, RMSE,
     /// the worst batches, those far off with likely causes, and a chart.
@@ -198,6 +199,36 @@ pub enum BatchCommand {
         /// The .jsonl file.
         file: PathBuf,
     },
+}
+
+/// What `gelu batch amend` corrects (at least one).
+#[derive(Debug, clap::Args)]
+pub struct Corrections {
+    /// The corrected operator's name.
+    #[arg(long, value_name = "NAME")]
+    pub operator: Option<String>,
+    /// The weighed mass of a line in g, repeatable: --actual sucrose=812.
+    #[arg(long = "actual", value_name = "INGREDIENT=G")]
+    pub actuals: Vec<String>,
+    /// The supplier lot of a line, repeatable: --lot whole-milk=M-2612-04.
+    #[arg(long = "lot", value_name = "INGREDIENT=LOT")]
+    pub lots: Vec<String>,
+    /// Strike out reading N (as `batch show` numbers them; it stays, marked), repeatable.
+    #[arg(long = "strike-reading", value_name = "N")]
+    pub strike_readings: Vec<usize>,
+    /// Correct the value of reading N, repeatable: --replace-reading 2=-6.5.
+    #[arg(
+        long = "replace-reading",
+        value_name = "N=VALUE",
+        allow_hyphen_values = true
+    )]
+    pub replace_readings: Vec<String>,
+    /// Strike out note N (it stays, marked), repeatable.
+    #[arg(long = "strike-note", value_name = "N")]
+    pub strike_notes: Vec<usize>,
+    /// Correct the text of note N, repeatable: --replace-note "1=first run of the day".
+    #[arg(long = "replace-note", value_name = "N=TEXT")]
+    pub replace_notes: Vec<String>,
 }
 
 /// Export formats.

@@ -1,6 +1,7 @@
 //! `gelu batch ...`: the batch log as plain text. Each subcommand resolves its
 //! flags ([`args`]) into typed requests for [`crate::store`] and prints the result
-//! as text, or as JSON (one object per batch per line) with `--json`.
+//! as text (record text shown inert), or as JSON (one object per batch per line)
+//! with `--json`. Commands that only read open a log they cannot write read-only.
 
 mod args;
 mod calibrate;
@@ -12,9 +13,11 @@ use std::process::ExitCode;
 
 use anyhow::{Context, bail};
 
-pub use args::{BatchArgs, BatchCommand, ExportFormat, FilterArgs, NewArgs, Selection};
+pub use args::{
+    BatchArgs, BatchCommand, Corrections, ExportFormat, FilterArgs, NewArgs, Selection,
+};
 
-use super::db::open_store;
+use super::db::{open_for_reading, open_store};
 use crate::batch::compare::{comparisons, comparisons_json};
 use crate::batch::export::Format;
 use crate::batch::jsonl::batch_json;
@@ -28,7 +31,8 @@ use crate::model::units::{parse_number, parse_share};
 use crate::model::{OwnItems, Recipe};
 use crate::recipe_file::{append_own_items, parse_recipe, read_recipe_using};
 use crate::report::batch_text::{batch_text, summary_line};
-use crate::store::Store;
+use crate::report::inert::inert;
+use crate::store::{Store, StoreError};
 
 /// `--by`, or the login name.
 pub(crate) fn who(by: &Option<String>) -> anyhow::Result<String> {
@@ -88,8 +92,9 @@ fn lots(list: &[String]) -> anyhow::Result<Vec<(LineRef, String)>> {
         .collect()
 }
 
-fn print_json(b: &Batch) {
-    println!("{}", batch_json(b));
+fn print_json(out: &mut impl Write, b: &Batch) -> anyhow::Result<()> {
+    writeln!(out, "{}", batch_json(b))?;
+    Ok(())
 }
 
 fn show(store: &Store, code: &str, json: bool) -> anyhow::Result<ExitCode> {
@@ -97,15 +102,16 @@ fn show(store: &Store, code: &str, json: bool) -> anyhow::Result<ExitCode> {
         .batch(code)?
         .ok_or_else(|| crate::store::StoreError::NoSuchBatch { code: code.into() })?;
     let log = store.log_setting()?;
+    let mut out = std::io::stdout().lock();
     if json {
         let mut value = batch_json(&b);
         if let Some(object) = value.as_object_mut() {
             let compared = comparisons(&b, &log.setting());
             object.insert("compared".into(), comparisons_json(&compared));
         }
-        println!("{value}");
+        writeln!(out, "{value}")?;
     } else {
-        print!("{}", batch_text(&b, &log.setting()));
+        write!(out, "{}", batch_text(&b, &log.setting()))?;
     }
     Ok(ExitCode::SUCCESS)
 }
@@ -154,12 +160,111 @@ fn new_batch(db: Option<&Path>, args: &NewArgs) -> anyhow::Result<ExitCode> {
         store.draw_frozen_fraction()?,
     )?;
     let b = store.new_batch(&planned)?;
+    let mut out = std::io::stdout().lock();
     if args.json {
-        print_json(&b);
+        print_json(&mut out, &b)?;
     } else {
-        println!("{}", b.code);
+        writeln!(out, "{}", b.code)?;
     }
     Ok(ExitCode::SUCCESS)
+}
+
+/// A 1-based position and what follows it: `N=REST`.
+fn numbered<'a>(text: &'a str, what: &str) -> anyhow::Result<(usize, &'a str)> {
+    let (n, rest) = pair(text, what)?;
+    let n = n
+        .parse::<usize>()
+        .ok()
+        .filter(|&n| n >= 1)
+        .with_context(|| format!("`{text}`: `{n}` is not a position (1, 2, 3...)"))?;
+    Ok((n, rest))
+}
+
+/// The edits `gelu batch amend` asks for, in the order of its flags.
+fn amend_edits(args: &Corrections) -> anyhow::Result<Vec<Edit>> {
+    let mut edits = Vec::new();
+    if let Some(name) = &args.operator {
+        edits.push(Edit::Operator(name.clone()));
+    }
+    for a in &args.actuals {
+        let (line, g) = pair(a, "INGREDIENT=G, like sucrose=812")?;
+        edits.push(Edit::ActualG {
+            line: LineRef::parse(line),
+            grams: grams(g, a)?,
+        });
+    }
+    for (line, lot) in lots(&args.lots)? {
+        edits.push(Edit::Lot { line, lot });
+    }
+    edits.extend(args.strike_readings.iter().map(|&n| Edit::StrikeReading(n)));
+    for r in &args.replace_readings {
+        let (reading, v) = numbered(r, "N=VALUE, like 2=-6.5")?;
+        let value = parse_number(v)
+            .ok()
+            .with_context(|| format!("`{r}`: `{v}` is not a number"))?;
+        edits.push(Edit::ReplaceReading { reading, value });
+    }
+    edits.extend(args.strike_notes.iter().map(|&n| Edit::StrikeNote(n)));
+    for r in &args.replace_notes {
+        let (note, text) = numbered(r, "N=TEXT, like 1=first run of the day")?;
+        edits.push(Edit::ReplaceNote {
+            note,
+            text: text.to_owned(),
+        });
+    }
+    Ok(edits)
+}
+
+fn import(db: Option<&Path>, file: &Path) -> anyhow::Result<ExitCode> {
+    let handle =
+        std::fs::File::open(file).with_context(|| format!("cannot open {}", file.display()))?;
+    let mut reader = std::io::BufReader::new(handle);
+    let mut store = open_store(db)?;
+    let shown = file.display().to_string();
+    let refused = |errors: &[(usize, String)]| {
+        for (n, why) in errors {
+            eprintln!(
+                "{}:{n}: {}; nothing of this line was written",
+                inert(&shown),
+                inert(why)
+            );
+        }
+    };
+    let report = match store.import_jsonl(&mut reader) {
+        Ok(report) => report,
+        Err(StoreError::ImportStopped {
+            line,
+            report,
+            cause,
+        }) => {
+            refused(&report.errors);
+            let stop = StoreError::ImportStopped {
+                line,
+                report,
+                cause,
+            };
+            eprintln!(
+                "gelu: {}:{line}: {}",
+                inert(&shown),
+                inert(&stop.to_string())
+            );
+            return Ok(ExitCode::from(2));
+        }
+        Err(e) => return Err(e.into()),
+    };
+    refused(&report.errors);
+    writeln!(
+        std::io::stdout(),
+        "{} imported, {} skipped (code already present), {} refused",
+        report.imported,
+        report.skipped_existing,
+        report.errors.len()
+    )?;
+    Ok(if report.errors.is_empty() {
+        ExitCode::SUCCESS
+    } else {
+        ExitCode::from(1)
+    })
 }
 
 /// Runs `gelu batch`.
@@ -171,28 +276,34 @@ pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
             limit,
             json,
         } => {
-            let store = open_store(db)?;
+            let store = open_for_reading(db)?;
             let rows = store.list_batches(&filter(f, *limit)?)?;
+            let mut out = std::io::BufWriter::new(std::io::stdout().lock());
             if *json {
                 for row in &rows {
-                    print_json(
-                        &store
-                            .batch(&row.code)?
-                            .with_context(|| format!("{} disappeared while listing", row.code))?,
-                    );
+                    let b = store
+                        .batch(&row.code)?
+                        .with_context(|| format!("{} disappeared while listing", row.code))?;
+                    print_json(&mut out, &b)?;
                 }
             } else {
                 for r in &rows {
-                    println!("{}", summary_line(r));
+                    writeln!(out, "{}", summary_line(r))?;
                 }
-                if rows.is_empty() {
-                    eprintln!("no batches match");
-                }
+            }
+            out.flush()?;
+            if rows.is_empty() && !*json {
+                eprintln!("no batches match");
             }
             Ok(ExitCode::SUCCESS)
         }
-        BatchCommand::Show { code, json } => show(&open_store(db)?, code, *json),
-        BatchCommand::Measure { code, readings, by } => {
+        BatchCommand::Show { code, json } => show(&open_for_reading(db)?, code, *json),
+        BatchCommand::Measure {
+            code,
+            readings,
+            by,
+            reason,
+        } => {
             let list = readings
                 .iter()
                 .map(|r| {
@@ -211,47 +322,58 @@ pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
                 .collect::<anyhow::Result<Vec<_>>>()?;
             let who = who(by)?;
             let mut store = open_store(db)?;
-            let saved = store.add_measurements(code, &all_as_recorded(&list), &who)?;
-            println!("{code}: {} measurement(s) recorded", saved.len());
+            let saved =
+                store.add_measurements(code, &all_as_recorded(&list), &who, reason.as_deref())?;
+            let where_ = if reason.is_some() {
+                " on the amendment trail"
+            } else {
+                ""
+            };
+            writeln!(
+                std::io::stdout(),
+                "{}: {} measurement(s) recorded{where_}",
+                inert(code),
+                saved.len()
+            )?;
             Ok(ExitCode::SUCCESS)
         }
-        BatchCommand::Note { code, text, by } => {
+        BatchCommand::Note {
+            code,
+            text,
+            by,
+            reason,
+        } => {
             let who = who(by)?;
-            open_store(db)?.add_note(code, text, &who)?;
-            println!("{code}: note added");
+            open_store(db)?.add_note(code, text, &who, reason.as_deref())?;
+            let where_ = if reason.is_some() {
+                " on the amendment trail"
+            } else {
+                ""
+            };
+            writeln!(std::io::stdout(), "{}: note added{where_}", inert(code))?;
             Ok(ExitCode::SUCCESS)
         }
         BatchCommand::Finalize { code, by } => {
             let who = who(by)?;
             open_store(db)?.finalize(code, &who)?;
-            println!("{code}: final");
+            writeln!(std::io::stdout(), "{}: final", inert(code))?;
             Ok(ExitCode::SUCCESS)
         }
         BatchCommand::Amend {
             code,
             reason,
             by,
-            operator,
-            actuals,
-            lots: lot_args,
+            corrections,
         } => {
-            let mut edits = Vec::new();
-            if let Some(name) = operator {
-                edits.push(Edit::Operator(name.clone()));
-            }
-            for a in actuals {
-                let (line, g) = pair(a, "INGREDIENT=G, like sucrose=812")?;
-                edits.push(Edit::ActualG {
-                    line: LineRef::parse(line),
-                    grams: grams(g, a)?,
-                });
-            }
-            for (line, lot) in lots(lot_args)? {
-                edits.push(Edit::Lot { line, lot });
-            }
+            let edits = amend_edits(corrections)?;
             let who = who(by)?;
             let a = open_store(db)?.amend(code, &who, reason, &edits)?;
-            println!("{code}: amended ({} change(s))", a.changes.len());
+            writeln!(
+                std::io::stdout(),
+                "{}: amended ({} change(s))",
+                inert(code),
+                a.changes.len()
+            )?;
             Ok(ExitCode::SUCCESS)
         }
         BatchCommand::Compare {
@@ -334,7 +456,7 @@ pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
             filter: f,
             limit,
         } => {
-            let store = open_store(db)?;
+            let store = open_for_reading(db)?;
             let stdout = std::io::stdout();
             let mut out = std::io::BufWriter::new(stdout.lock());
             let f = filter(f, *limit)?;
@@ -347,29 +469,6 @@ pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
             eprintln!("{count} batch(es) exported");
             Ok(ExitCode::SUCCESS)
         }
-        BatchCommand::Import { file } => {
-            let handle = std::fs::File::open(file)
-                .with_context(|| format!("cannot open {}", file.display()))?;
-            let mut reader = std::io::BufReader::new(handle);
-            let mut store = open_store(db)?;
-            let report = store.import_jsonl(&mut reader)?;
-            for (n, why) in &report.errors {
-                eprintln!(
-                    "{}:{n}: {why}; nothing of this line was written",
-                    file.display()
-                );
-            }
-            println!(
-                "{} imported, {} skipped (code already present), {} refused",
-                report.imported,
-                report.skipped_existing,
-                report.errors.len()
-            );
-            Ok(if report.errors.is_empty() {
-                ExitCode::SUCCESS
-            } else {
-                ExitCode::from(1)
-            })
-        }
+        BatchCommand::Import { file } => import(db, file),
     }
 }

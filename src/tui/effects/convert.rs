@@ -13,9 +13,10 @@ use crate::store::{CustomItem, SYNC_URL_KEY, Store};
 
 use super::super::state::{
     BatchDetailView, BatchRow, CompareRequest, CompareView, KindView, MeasurementRow, OwnLibrary,
-    Settings,
+    Settings, TrailRow,
 };
 use crate::model::{MassUnit, TempUnit};
+use crate::report::inert::inert;
 
 const KEY_TEMP: &str = "workspace.temp_unit";
 const KEY_MASS: &str = "workspace.mass_unit";
@@ -210,23 +211,34 @@ pub fn row(b: &BatchSummary) -> BatchRow {
     }
 }
 
-/// One batch in full, with predicted against measured figures (`setting`:
-/// the draw share and corrections in force).
+/// One batch in full, with predicted against measured figures (`setting`: the
+/// draw share and corrections in force), every reading and note (struck ones
+/// marked) and the amendment trail; text from the record inert.
 pub fn detail(b: &Batch, setting: &Setting<'_>) -> BatchDetailView {
     let comparisons = comparisons(b, setting);
-    let mut notes: Vec<(String, String, String)> = b
+    let shown = |t: &str| inert(t).into_owned();
+    let notes: Vec<(String, String, String)> = b
         .notes
         .iter()
-        .map(|n| (minute(&n.written_at), n.by.clone(), n.text.clone()))
+        .map(|n| {
+            let text = if n.struck {
+                format!("(struck out) {}", shown(&n.text))
+            } else {
+                shown(&n.text)
+            };
+            (minute(&n.written_at), shown(&n.by), text)
+        })
         .collect();
-    for a in &b.amendments {
-        notes.push((
-            minute(&a.amended_at),
-            a.by.clone(),
-            format!("amended ({} change(s)): {}", a.changes.len(), a.reason),
-        ));
-    }
-    notes.sort();
+    let trail = b
+        .amendments
+        .iter()
+        .map(|a| TrailRow {
+            at: minute(&a.amended_at),
+            by: shown(&a.by),
+            reason: shown(&a.reason),
+            changes: a.changes.iter().map(|c| shown(&c.to_string())).collect(),
+        })
+        .collect();
     BatchDetailView {
         row: BatchRow {
             code: b.code.clone(),
@@ -252,9 +264,11 @@ pub fn detail(b: &Batch, setting: &Setting<'_>) -> BatchDetailView {
                 at: minute(&m.taken_at),
                 kind: m.kind,
                 value: m.value,
-                by: m.by.clone(),
+                by: shown(&m.by),
+                struck: m.struck,
             })
             .collect(),
         notes,
+        trail,
     }
 }

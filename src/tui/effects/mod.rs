@@ -18,7 +18,9 @@ use crate::clock;
 use crate::model::OwnItems;
 use crate::model::Recipe;
 use crate::model::time::{DayEnd, parse_date_bound};
-use crate::recipe_file::{parse_recipe, parse_recipe_using, read_recipe_using, recipe_to_toml};
+use crate::recipe_file::{
+    parse_recipe, parse_recipe_using, read_recipe_using, recipe_to_checked_toml,
+};
 use crate::store::{CustomItem, Store, scope_words};
 
 use super::action::{Action, Effect};
@@ -208,13 +210,35 @@ impl Services {
                 kind,
                 value,
                 by,
+                reason,
             } => {
-                s.add_measurements(&code, &as_recorded(kind, value), &by)?;
-                changed(code, "Measurement recorded.")
+                let trail = reason.is_some();
+                s.add_measurements(&code, &as_recorded(kind, value), &by, reason.as_deref())?;
+                changed(
+                    code,
+                    if trail {
+                        "Measurement recorded on the amendment trail."
+                    } else {
+                        "Measurement recorded."
+                    },
+                )
             }
-            Effect::AddNote { code, text, by } => {
-                s.add_note(&code, &text, &by)?;
-                changed(code, "Note added.")
+            Effect::AddNote {
+                code,
+                text,
+                by,
+                reason,
+            } => {
+                let trail = reason.is_some();
+                s.add_note(&code, &text, &by, reason.as_deref())?;
+                changed(
+                    code,
+                    if trail {
+                        "Note added on the amendment trail."
+                    } else {
+                        "Note added."
+                    },
+                )
             }
             Effect::Finalize { code, by } => {
                 s.finalize(&code, &by)?;
@@ -321,7 +345,8 @@ fn save_file(path: &Path, original: Option<&str>, recipe: Recipe) -> anyhow::Res
 }
 
 fn save_version(store: &mut Store, recipe: Recipe) -> anyhow::Result<Action> {
-    let text = recipe_to_toml(&recipe);
+    let text = recipe_to_checked_toml(&recipe)
+        .map_err(|why| anyhow::anyhow!("{} was not saved: {why}", recipe.name))?;
     let v = store.save_recipe_version(&recipe.name, &text)?;
     Ok(Action::Saved {
         message: format!(
@@ -365,11 +390,15 @@ fn load_page(store: &Store, query: BatchQuery) -> anyhow::Result<BatchPage> {
 fn start_batch(store: &mut Store, request: BatchRequest) -> anyhow::Result<Action> {
     // The recorded text must read on its own: a file that leans on the user's
     // own items in the log is recorded as the recipe with them written in.
-    let text = request
+    // Never a text the reader would refuse.
+    let text = match request
         .recipe_text
         .clone()
         .filter(|t| parse_recipe(Path::new(&request.recipe.name), t).is_ok())
-        .unwrap_or_else(|| recipe_to_toml(&request.recipe));
+    {
+        Some(text) => text,
+        None => recipe_to_checked_toml(&request.recipe).map_err(anyhow::Error::msg)?,
+    };
     let lots: Vec<(LineRef, String)> = request
         .lots
         .iter()

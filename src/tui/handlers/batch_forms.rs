@@ -60,19 +60,59 @@ pub fn measurement_names() -> String {
     MeasurementKind::names()
 }
 
-pub fn open_measurement_form(state: &mut State, code: String) {
+/// The label of the reason field a signed-off batch's forms add.
+const REASON: &str = "Reason (after sign-off)";
+
+/// Opens the form that adds a reading; on a signed-off batch it asks for the
+/// reason too, as the reading goes on the record's trail.
+pub fn open_measurement_form(state: &mut State, code: String, signed_off: bool) {
+    let mut fields = vec![
+        Field::new("What", "brix"),
+        Field::new("Value", String::new()),
+    ];
+    if signed_off {
+        fields.push(Field::new(REASON, String::new()));
+    }
     let mut form = Form {
         purpose: FormPurpose::Measurement(code),
-        title: "Add a measurement".into(),
-        fields: vec![
-            Field::new("What", "brix"),
-            Field::new("Value", String::new()),
-        ],
+        title: if signed_off {
+            "Add a measurement (on the amendment trail)".into()
+        } else {
+            "Add a measurement".into()
+        },
+        fields,
         focus: 1,
         summary: Some(format!("What: one of {}", measurement_names())),
     };
     check_form(state, &mut form);
     state.overlay = Some(Overlay::Form(form));
+}
+
+/// Opens the form that adds a note to a signed-off batch: the note and the reason
+/// (it goes on the record's trail). A draft's note is a one-line prompt.
+pub fn open_trail_note_form(state: &mut State, code: String) {
+    let mut form = Form {
+        purpose: FormPurpose::TrailNote(code),
+        title: "Add a note (on the amendment trail)".into(),
+        fields: vec![
+            Field::new("Note", String::new()),
+            Field::new(REASON, String::new()),
+        ],
+        focus: 0,
+        summary: Some(
+            "A signed-off record keeps what it showed: say why the note comes now.".into(),
+        ),
+    };
+    check_form(state, &mut form);
+    state.overlay = Some(Overlay::Form(form));
+}
+
+/// The reason field's text, when the form has one (a signed-off batch's form).
+fn reason(form: &Form) -> Option<String> {
+    form.fields
+        .iter()
+        .find(|f| f.label == REASON)
+        .map(|f| f.input.value().trim().to_string())
 }
 
 const AMEND_REASON: usize = 0;
@@ -184,6 +224,18 @@ pub fn check_form(state: &State, form: &mut Form) {
             let problem = measurement(state, form).err();
             problems.push((0, (!kind_ok).then(|| problem.clone().unwrap_or_default())));
             problems.push((1, if kind_ok { problem } else { None }));
+            if reason(form).is_some() {
+                problems.push((2, reason_problem(form)));
+            }
+        }
+        FormPurpose::TrailNote(_) => {
+            problems.push((
+                0,
+                value(form, 0)
+                    .is_empty()
+                    .then(|| "type the note".to_string()),
+            ));
+            problems.push((1, reason_problem(form)));
         }
         FormPurpose::Amend(_) => {
             problems.push((
@@ -207,6 +259,12 @@ pub fn check_form(state: &State, form: &mut Form) {
             f.problem = problem;
         }
     }
+}
+
+fn reason_problem(form: &Form) -> Option<String> {
+    reason(form)
+        .filter(|r| r.is_empty())
+        .map(|_| "say why it comes after sign-off".to_string())
 }
 
 /// Who is signing: the operator from the settings.
@@ -258,8 +316,15 @@ pub fn submit(state: &mut State, form: &Form) -> Result<Vec<Effect>, String> {
                 kind,
                 value,
                 by: signer(state)?,
+                reason: reason(form),
             }])
         }
+        FormPurpose::TrailNote(code) => Ok(vec![Effect::AddNote {
+            code: code.clone(),
+            text: value(form, 0).to_string(),
+            by: signer(state)?,
+            reason: reason(form),
+        }]),
         FormPurpose::Amend(code) => Ok(vec![Effect::Amend {
             code: code.clone(),
             by: signer(state)?,

@@ -7,7 +7,9 @@ use super::super::action::{Command, Effect};
 use super::super::state::{
     BatchPage, CompareRequest, CompareView, KindView, Overlay, PromptPurpose, Question, State,
 };
-use super::batch_forms::{open_amend_form, open_batch_form, open_measurement_form, signer};
+use super::batch_forms::{
+    open_amend_form, open_batch_form, open_measurement_form, open_trail_note_form, signer,
+};
 use super::common::{move_cursor, prompt};
 use crate::measure::Scope;
 use crate::model::time::{DayEnd, parse_date_bound};
@@ -32,7 +34,8 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
         let finalized = detail.row.finalized;
         match command {
             Command::Cancel => state.batches.detail = None,
-            Command::AddMeasurement => open_measurement_form(state, code),
+            Command::AddMeasurement => open_measurement_form(state, code, finalized),
+            Command::AddNote if finalized => open_trail_note_form(state, code),
             Command::AddNote => prompt(
                 state,
                 PromptPurpose::BatchNote(code),
@@ -294,6 +297,7 @@ pub fn accept(
                 code: code.clone(),
                 text: text.to_string(),
                 by: signer(state)?,
+                reason: None,
             }])
         }
         _ => Ok(Vec::new()),

@@ -5,17 +5,18 @@
 use tui_input::Input;
 
 use crate::batch::plan::parse_size;
-use crate::model::{Amount, Line, Recipe, SoluteKind};
+use crate::model::{Amount, Line, MassUnit, Recipe, SoluteKind};
 
 use super::super::action::{Command, Effect};
 use super::super::state::{
-    Overlay, PickItem, Picker, PickerPurpose, PromptPurpose, RecipeEntry, RecipeSource, Screen,
-    State, search_key,
+    OpenFrom, Overlay, PickItem, Picker, PickerPurpose, PromptPurpose, Question, RecipeEntry,
+    RecipeSource, Screen, State, search_key,
 };
 use super::batch_forms::size_text;
-use super::common::{move_cursor, prompt};
+use super::common::{more_than_ten_times, move_cursor, prompt, prompt_on};
 use crate::model::units::{
-    amount_edit_text, format_mass, format_volume, parse_amount, parse_share, trim_number,
+    amount_edit_text, format_amount, format_mass, format_volume, parse_amount, parse_share,
+    trim_number,
 };
 
 /// Most undo steps kept.
@@ -34,7 +35,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
                 let title = format!("Amount of {}", state.display_name(&line.ingredient));
                 let text = amount_edit_text(line.amount, state.settings.mass_unit);
                 let at = state.recipe.cursor;
-                prompt(state, PromptPurpose::LineAmount(at), title, text);
+                prompt_on(state, PromptPurpose::LineAmount(at), title, text);
             }
         }
         Command::DeleteLine => {
@@ -62,7 +63,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
         Command::ScaleRecipe => match &state.recipe.analysis {
             Ok(a) => {
                 let text = size_text(a, state.settings.mass_unit);
-                prompt(
+                prompt_on(
                     state,
                     PromptPurpose::ScaleTotal,
                     "Scale the whole recipe to a total of".into(),
@@ -78,7 +79,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
                 .serving_frozen_fraction
                 .map(|t| trim_number(100.0 * t))
                 .unwrap_or_default();
-            prompt(
+            prompt_on(
                 state,
                 PromptPurpose::ServingTarget,
                 "Water frozen at serving, % (empty: the settings' default)".into(),
@@ -107,13 +108,8 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
                 recipe: state.recipe.recipe.clone(),
             }];
         }
-        Command::OpenRecipe => return vec![Effect::ListRecipes],
-        Command::OpenFile => prompt(
-            state,
-            PromptPurpose::OpenFilePath,
-            "Open the recipe file".into(),
-            String::new(),
-        ),
+        Command::OpenRecipe => return open_or_ask(state, OpenFrom::Log),
+        Command::OpenFile => return open_or_ask(state, OpenFrom::File),
         Command::ShowWarnings => {
             state.overlay = Some(Overlay::Reader(
                 super::super::state::ReaderKind::Warnings,
@@ -171,7 +167,95 @@ fn redo(state: &mut State) {
     }
 }
 
-fn save(state: &mut State) -> Vec<Effect> {
+/// Opens another recipe, asking first when the one in the editor has unsaved
+/// changes (as quitting does, with a choice to save first).
+fn open_or_ask(state: &mut State, from: OpenFrom) -> Vec<Effect> {
+    if state.recipe.is_dirty() {
+        state.overlay = Some(Overlay::Confirm(Question::OpenUnsaved(from)));
+        Vec::new()
+    } else {
+        open(state, from)
+    }
+}
+
+/// Goes on opening another recipe: the list of the log's recipes, or the prompt
+/// for a file's path.
+pub fn open(state: &mut State, from: OpenFrom) -> Vec<Effect> {
+    match from {
+        OpenFrom::Log => vec![Effect::ListRecipes],
+        OpenFrom::File => {
+            prompt(
+                state,
+                PromptPurpose::OpenFilePath,
+                "Open the recipe file".into(),
+                String::new(),
+            );
+            Vec::new()
+        }
+    }
+}
+
+/// When a prompt's value is more than ten times its old one, the question to put
+/// before applying it; `None` to apply it at once (or to let it be refused).
+pub fn large_change(state: &State, purpose: &PromptPurpose, text: &str) -> Option<String> {
+    let unit = state.settings.mass_unit;
+    match purpose {
+        PromptPurpose::LineAmount(at) => {
+            let line = state.recipe.recipe.lines.get(*at)?;
+            let new = parse_amount(text, Some(unit)).ok()?;
+            let density = state
+                .catalog
+                .ingredient(&line.ingredient)
+                .map_or(1.0, |i| i.density_g_ml);
+            more_than_ten_times(line.amount.grams(density), new.grams(density)).then(|| {
+                format!(
+                    "{} to {} is more than ten times the old amount of {}. Apply it?",
+                    format_amount(line.amount, unit),
+                    format_amount(new, unit),
+                    state.display_name(&line.ingredient)
+                )
+            })
+        }
+        PromptPurpose::ScaleTotal => {
+            let a = state.recipe.analysis.as_ref().ok()?;
+            let (old, new, shown): (f64, f64, fn(f64, MassUnit) -> String) =
+                match parse_size(text, Some(unit)).ok()? {
+                    Amount::Grams(g) => (a.mass_g, g, format_mass),
+                    Amount::Millilitres(ml) => (a.volume_ml, ml, |v, _| format_volume(v)),
+                };
+            more_than_ten_times(old, new).then(|| {
+                format!(
+                    "Scaling {} to {} changes every amount more than ten times. Apply it?",
+                    shown(old, unit),
+                    shown(new, unit)
+                )
+            })
+        }
+        PromptPurpose::ServingTarget if !text.trim().is_empty() => {
+            let old = state
+                .recipe
+                .recipe
+                .serving_frozen_fraction
+                .unwrap_or(state.settings.serving_frozen_fraction);
+            share_question(old, parse_share(text).ok()?)
+        }
+        _ => None,
+    }
+}
+
+/// The question for a share changed more than ten times, if it is.
+pub fn share_question(old: f64, new: f64) -> Option<String> {
+    more_than_ten_times(old, new).then(|| {
+        format!(
+            "{} % to {} % of the water frozen at serving is more than a tenfold change. Apply it?",
+            trim_number(100.0 * old),
+            trim_number(100.0 * new)
+        )
+    })
+}
+
+/// Saves the recipe where it came from (a new one asks for its name first).
+pub fn save(state: &mut State) -> Vec<Effect> {
     let recipe = state.recipe.recipe.clone();
     match &state.recipe.source {
         RecipeSource::File { path, original } => vec![Effect::SaveFile {

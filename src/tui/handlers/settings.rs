@@ -4,7 +4,7 @@
 use super::super::action::{Command, Effect};
 use super::super::state::{PromptPurpose, SettingField, State};
 use super::common::move_cursor;
-use super::common::prompt;
+use super::common::prompt_on;
 use crate::batch::shared::check_site_code;
 use crate::model::units::{parse_freezing_temp, parse_share};
 use crate::model::{MassUnit, TempUnit};
@@ -46,7 +46,7 @@ fn toggle(state: &mut State, field: SettingField) -> Vec<Effect> {
         }
         _ => {
             let text = state.settings.field_text(field);
-            prompt(
+            prompt_on(
                 state,
                 PromptPurpose::Setting(field),
                 field.label().into(),
@@ -60,6 +60,19 @@ fn toggle(state: &mut State, field: SettingField) -> Vec<Effect> {
 fn stored(state: &mut State) -> Vec<Effect> {
     state.reanalyse();
     vec![Effect::SaveSettings(state.settings.clone())]
+}
+
+/// When a typed setting is more than ten times the old one, the question to put
+/// first. (Only the serving share: a temperature is bounded by where mixes
+/// freeze, and a tenfold step between -1.3 and -13 °C is an ordinary one.)
+pub fn large_change(state: &State, field: SettingField, text: &str) -> Option<String> {
+    match field {
+        SettingField::ServingTarget => {
+            let new = parse_share(text).ok()?;
+            super::recipe::share_question(state.settings.serving_frozen_fraction, new)
+        }
+        _ => None,
+    }
 }
 
 /// Accepts a typed setting; `Err` keeps the prompt open with the reason.

@@ -66,6 +66,21 @@ pub struct MeasurementRow {
     pub value: f64,
     /// Who measured.
     pub by: String,
+    /// Whether an amendment struck it out (it keeps its place, marked).
+    pub struck: bool,
+}
+
+/// One entry of a batch's amendment trail, in words.
+#[derive(Debug, Clone, PartialEq)]
+pub struct TrailRow {
+    /// When (UTC, to the minute).
+    pub at: String,
+    /// Who.
+    pub by: String,
+    /// Why.
+    pub reason: String,
+    /// What it changed or added, one line each.
+    pub changes: Vec<String>,
 }
 
 /// One batch in full.
@@ -77,10 +92,13 @@ pub struct BatchDetailView {
     pub lines: Vec<(String, f64, String)>,
     /// Predicted against measured.
     pub comparisons: Vec<Comparison>,
-    /// Measurements, oldest first.
+    /// Every reading, in the order recorded (numbered as amendments name them).
     pub measurements: Vec<MeasurementRow>,
-    /// Notes and amendments, oldest first: when, who, text.
+    /// Every note, in the order recorded: when, who, text (a struck one marked).
     pub notes: Vec<(String, String, String)>,
+    /// The amendment trail, oldest first: readings and notes added after sign-off
+    /// and every correction.
+    pub trail: Vec<TrailRow>,
 }
 
 /// What the compare view asks the log for.

@@ -152,6 +152,9 @@ pub struct RecipeState {
     pub analysis: Result<Analysis, String>,
     /// The balance panel, when it is open.
     pub balance: Option<BalancePanel>,
+    /// What to do once the save under way goes through ("save first" answered to
+    /// a question); dropped if the save fails or is backed out of.
+    pub after_save: Option<AfterSave>,
 }
 
 impl RecipeState {
@@ -356,6 +359,7 @@ impl State {
                 redo: Vec::new(),
                 analysis: Err(String::new()),
                 balance: None,
+                after_save: None,
             },
             ingredients: IngredientsState::default(),
             batches: BatchesState {

@@ -8,7 +8,7 @@ use super::RecipeEntry;
 use super::SettingField;
 
 /// What a one-line prompt is for.
-#[derive(Debug, Clone, PartialEq)]
+#[derive(Debug, Clone, PartialEq, Eq)]
 pub enum PromptPurpose {
     /// The amount of a new line of this ingredient.
     NewLineAmount(String),
@@ -53,6 +53,9 @@ pub struct Prompt {
     pub input: Input,
     /// Why the text is not accepted, when it is not.
     pub error: Option<String>,
+    /// Whether the whole text is selected (an old value offered for editing):
+    /// typing replaces it, a deletion clears it, moving the cursor keeps it.
+    pub selected: bool,
 }
 
 /// What the picker picks.
@@ -101,6 +104,8 @@ pub enum FormPurpose {
     Batch,
     /// A measurement for the batch with this code.
     Measurement(String),
+    /// A note, with its reason, for the signed-off batch with this code.
+    TrailNote(String),
     /// An amendment of the batch with this code.
     Amend(String),
     /// An ingredient characterised from measured freezing points.
@@ -153,17 +158,55 @@ pub enum ReaderKind {
     Warnings,
 }
 
-/// What a yes/no question decides.
+/// Where another recipe is opened from.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum OpenFrom {
+    /// A recipe in the batch log (the database).
+    Log,
+    /// A recipe file.
+    File,
+}
+
+/// What to do once a save asked for by a question has gone through.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum AfterSave {
+    /// Leave gelu.
+    Quit,
+    /// Go on opening another recipe.
+    Open(OpenFrom),
+}
+
+/// What a question decides.
 #[derive(Debug, Clone, PartialEq, Eq)]
 pub enum Question {
-    /// Quit despite unsaved changes.
+    /// Quit despite unsaved changes (or save first).
     QuitUnsaved,
+    /// Open another recipe over unsaved changes (or save first).
+    OpenUnsaved(OpenFrom),
     /// Finalise the batch with this code.
     Finalize(String),
     /// Put in force the correction of this kind the compare view offers.
     TurnOnCorrection(String),
     /// Take out the correction of this kind in force for the compare view's scope.
     TurnOffCorrection(String),
+    /// Apply a value more than ten times the old one, typed in a prompt.
+    LargeChange {
+        /// The prompt it was typed in.
+        purpose: PromptPurpose,
+        /// The prompt's question.
+        title: String,
+        /// The text typed.
+        text: String,
+        /// The question put, in words ("160 g to 1700 g ...").
+        said: String,
+    },
+}
+
+impl Question {
+    /// Whether "save first" is one of its answers (a question over unsaved work).
+    pub fn offers_save(&self) -> bool {
+        matches!(self, Question::QuitUnsaved | Question::OpenUnsaved(_))
+    }
 }
 
 /// Something drawn over the screen that takes the keys.

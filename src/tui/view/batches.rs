@@ -292,21 +292,38 @@ fn render_detail(state: &State, d: &BatchDetailView, theme: Theme, frame: &mut F
     let t = state.settings.temp_unit;
     let mut lines = comparison_lines(d, t, theme);
     lines.push(Line::from(Span::styled("Measurements", theme.title())));
-    for m in &d.measurements {
+    for (i, m) in d.measurements.iter().enumerate() {
         lines.push(Line::from(format!(
-            "  {} {} {} ({})",
+            "{:>2} {} {} {} ({}){}",
+            i + 1,
             m.at,
             kind_label(m.kind),
             measured_text(m.kind, m.value, t),
-            m.by
+            m.by,
+            if m.struck { " struck out" } else { "" }
         )));
     }
-    lines.push(Line::from(Span::styled(
-        "Notes and amendments",
-        theme.title(),
-    )));
-    for (at, by, text) in &d.notes {
-        lines.push(Line::from(format!("  {at} {by}: {text}")));
+    lines.push(Line::from(Span::styled("Notes", theme.title())));
+    for (i, (at, by, text)) in d.notes.iter().enumerate() {
+        lines.push(Line::from(format!("{:>2} {at} {by}: {text}", i + 1)));
+    }
+    if !d.trail.is_empty() {
+        lines.push(Line::from(Span::styled(
+            "Amendment trail (after sign-off)",
+            theme.title(),
+        )));
+        for (i, a) in d.trail.iter().enumerate() {
+            lines.push(Line::from(format!(
+                "{:>2} {} {}: {}",
+                i + 1,
+                a.at,
+                a.by,
+                a.reason
+            )));
+            for c in &a.changes {
+                lines.push(Line::from(format!("     {c}")));
+            }
+        }
     }
     frame.render_widget(
         Paragraph::new(lines).wrap(Wrap { trim: false }).block(

@@ -4,6 +4,7 @@
 
 use ratatui::Frame;
 use ratatui::layout::{Position, Rect};
+use ratatui::style::Style;
 use ratatui::text::{Line, Span};
 use ratatui::widgets::{Block, Clear, Paragraph, Wrap};
 use tui_input::Input;
@@ -35,12 +36,22 @@ fn boxed(frame: &mut Frame, area: Rect, title: &str, theme: Theme) -> Rect {
     inner
 }
 
-/// Draws a text field on one row and puts the terminal cursor in it.
-fn text_field(input: &Input, frame: &mut Frame, area: Rect, focused: bool) {
+/// Draws a text field on one row and puts the terminal cursor in it; a selected
+/// value is drawn in reverse video.
+fn text_field(
+    input: &Input,
+    frame: &mut Frame,
+    area: Rect,
+    focused: bool,
+    selected: Option<Style>,
+) {
     let width = area.width.max(1) as usize;
     let scroll = input.visual_scroll(width);
     let shown: String = input.value().chars().skip(scroll).take(width).collect();
-    frame.render_widget(Paragraph::new(shown), area);
+    match selected {
+        Some(style) => frame.render_widget(Paragraph::new(Span::styled(shown, style)), area),
+        None => frame.render_widget(Paragraph::new(shown), area),
+    }
     if focused && area.width > 0 {
         let x = (input.visual_cursor().saturating_sub(scroll)) as u16;
         frame.set_cursor_position(Position::new(area.x + x.min(area.width - 1), area.y));
@@ -60,7 +71,13 @@ fn prompt(p: &Prompt, theme: Theme, frame: &mut Frame, area: Rect) {
         ..inner
     };
     frame.render_widget(Paragraph::new(">"), Rect { width: 2, ..inner });
-    text_field(&p.input, frame, field, true);
+    text_field(
+        &p.input,
+        frame,
+        field,
+        true,
+        p.selected.then(|| theme.selected()),
+    );
     if let Some(error) = &p.error
         && inner.height > 2
     {
@@ -104,6 +121,7 @@ fn picker(p: &Picker, theme: Theme, frame: &mut Frame, area: Rect) {
             ..inner
         },
         true,
+        None,
     );
     let rows = (inner.height - 1) as usize;
     let offset = p.cursor.saturating_sub(rows.saturating_sub(1));
@@ -195,7 +213,7 @@ fn form(f: &Form, theme: Theme, frame: &mut Frame, area: Rect) {
             width: inner.width.saturating_sub(label_w + 1),
             height: 1,
         };
-        text_field(&field.input, frame, value_area, focused);
+        text_field(&field.input, frame, value_area, focused, None);
         if let Some(problem) = &field.problem
             && per == 2
         {
@@ -324,6 +342,10 @@ fn confirm(state: &State, q: &Question, theme: Theme, frame: &mut Frame, area: R
             "{} has unsaved changes. Quit and lose them?",
             state.recipe.recipe.name
         ),
+        Question::OpenUnsaved(_) => format!(
+            "{} has unsaved changes. Open another recipe and lose them?",
+            state.recipe.recipe.name
+        ),
         Question::Finalize(_) => {
             "Finalise this batch? Afterwards it is corrected only by amendments.".to_string()
         }
@@ -342,13 +364,19 @@ fn confirm(state: &State, q: &Question, theme: Theme, frame: &mut Frame, area: R
         Question::TurnOffCorrection(kind) => {
             format!("Take out the correction of {kind} in force? Its versions stay in the log.")
         }
+        Question::LargeChange { said, .. } => said.clone(),
     };
     // Room for the question wrapped in the box, a blank line and the keys.
     let rows = (text.chars().count() / 54 + 1) as u16;
     let outer = centered(area, 60, (rows + 4).max(6));
     let inner = boxed(frame, outer, "Are you sure?", theme);
+    let save = q.offers_save();
     let keys: Vec<String> = keymap::bindings_in(Context::Confirm)
-        .filter(|b| matches!(b.command, Command::Yes | Command::No))
+        .filter(|b| match b.command {
+            Command::Yes | Command::No => true,
+            Command::SaveFirst => save,
+            _ => false,
+        })
         .map(|b| {
             format!(
                 "{} {}",
