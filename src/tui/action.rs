@@ -92,6 +92,7 @@ commands! {
     CharacteriseIngredient => "characterise", "Characterise an ingredient of your own from measured freezing points";
     AddToRecipe => "add-to-recipe", "Add the ingredient under the cursor to the recipe";
     OpenDetail => "open-detail", "Open the batch under the cursor";
+    RefreshBatches => "refresh-batches", "Read the batch log again (what other terminals and the command line wrote)";
     FilterRecipe => "filter-recipe", "Show only batches of the recipe in the editor (again: all)";
     FilterDate => "filter-date", "Show only batches made on or after a date";
     CompareBatches => "compare", "Predicted against measured over the batches shown: bias, RMSE, chart";

@@ -232,6 +232,12 @@ pub const KEYMAP: &[Binding] = &[
         Some("batch"),
     ),
     bind(BATCHES, Key::ch('S'), Command::SyncNow, Some("sync")),
+    bind(
+        &[C::Batches, C::BatchDetail],
+        Key::ch('r'),
+        Command::RefreshBatches,
+        Some("refresh"),
+    ),
     bind(RECIPE, Key::ch('B'), Command::OpenBalance, Some("balance")),
     bind(RECIPE, Key::ch('R'), Command::ReduceToStrength, None),
     // The balance panel on the recipe screen.

@@ -136,11 +136,12 @@ fn cycle(screen: Screen, step: usize) -> Screen {
 }
 
 fn show(state: &mut State, screen: Screen) -> Vec<Effect> {
+    let arriving = state.screen != screen;
     state.screen = screen;
-    if screen == Screen::Batches && state.batches.rows.is_empty() && !state.batches.loading {
-        let mut effects = batches::reload(state);
-        effects.push(Effect::LoadSyncState);
-        return effects;
+    // The batch log is read again each time it is shown: other terminals and the
+    // command line write to it too.
+    if screen == Screen::Batches && (arriving || state.batches.rows.is_empty()) {
+        return batches::refresh(state);
     }
     Vec::new()
 }

@@ -1010,3 +1010,61 @@ fn a_recipes_own_cabinet_wins_over_the_settings_and_survives_a_save() {
         .unwrap_or_else(|e| panic!("{e}\n{text}"));
     assert_eq!(back.cabinet_temp_c, Some(-14.5));
 }
+
+#[test]
+fn the_batch_log_is_read_again_when_shown_and_on_r() {
+    let mut s = loaded_state();
+    let loads = |effects: &[Effect]| {
+        effects
+            .iter()
+            .filter(|e| matches!(e, Effect::LoadBatches(_)))
+            .count()
+    };
+    assert_eq!(loads(&cmd(&mut s, Command::ShowBatches)), 1);
+    let query = s.batches.query.clone();
+    update(
+        &mut s,
+        Action::BatchesPage(gelu::tui::state::BatchPage {
+            query,
+            rows: vec![gelu::tui::state::BatchRow {
+                code: "B-20261202-QAY-0001".into(),
+                made_at: "2026-12-02 06:00".into(),
+                recipe_name: "Tide Mill fior di latte".into(),
+                version: 1,
+                size_g: 5000.0,
+                operator: "RW".into(),
+                status: "draft".into(),
+                finalized: false,
+                cursor: None,
+            }],
+            more: false,
+        }),
+    );
+    // Away and back: another terminal may have written meanwhile.
+    cmd(&mut s, Command::ShowRecipe);
+    assert_eq!(loads(&cmd(&mut s, Command::ShowBatches)), 1);
+    let query = s.batches.query.clone();
+    update(
+        &mut s,
+        Action::BatchesPage(gelu::tui::state::BatchPage {
+            query,
+            rows: vec![gelu::tui::state::BatchRow {
+                code: "B-20261202-QAY-0001".into(),
+                made_at: "2026-12-02 06:00".into(),
+                recipe_name: "Tide Mill fior di latte".into(),
+                version: 1,
+                size_g: 5000.0,
+                operator: "RW".into(),
+                status: "draft".into(),
+                finalized: false,
+                cursor: None,
+            }],
+            more: false,
+        }),
+    );
+    // Staying on the screen reads nothing by itself; r reads it again.
+    assert_eq!(loads(&cmd(&mut s, Command::ShowBatches)), 0);
+    let effects = cmd(&mut s, Command::RefreshBatches);
+    assert_eq!(loads(&effects), 1);
+    assert!(effects.iter().any(|e| matches!(e, Effect::LoadSyncState)));
+}

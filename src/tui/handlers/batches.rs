@@ -50,6 +50,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
                 state.tell("A draft is not amended: add a note (n), or finalise it first (F).")
             }
             Command::Amend => open_amend_form(state, code),
+            Command::RefreshBatches => return refresh(state),
             _ => {}
         }
         return Vec::new();
@@ -65,6 +66,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
                 return vec![Effect::LoadBatchDetail(row.code.clone())];
             }
         }
+        Command::RefreshBatches => return refresh(state),
         Command::Search => {
             let text = state.batches.query.text.clone();
             prompt(
@@ -226,6 +228,22 @@ pub fn turn_off(state: &mut State, kind: &str) -> Vec<Effect> {
 }
 
 /// Starts the log again from the newest batch for the current filters.
+/// Reads the log again: the list from the top, the batch open in the detail (if
+/// any), and where the log stands with the hub.
+pub fn refresh(state: &mut State) -> Vec<Effect> {
+    let mut effects = if state.batches.loading {
+        Vec::new()
+    } else {
+        reload(state)
+    };
+    if let Some(detail) = &state.batches.detail {
+        effects.push(Effect::LoadBatchDetail(detail.row.code.clone()));
+    }
+    effects.push(Effect::LoadSyncState);
+    effects
+}
+
+/// Reads the list again from its newest row.
 pub fn reload(state: &mut State) -> Vec<Effect> {
     state.batches.rows.clear();
     state.batches.cursor = 0;

@@ -184,7 +184,7 @@ fn render_list(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
         .take(visible)
         .map(|(k, r)| {
             let mark = if k == b.cursor { CURSOR_MARK } else { "  " };
-            let status = if r.finalized { "final" } else { "open" };
+            let status = r.status.as_str();
             let made = r.made_at.get(..16).unwrap_or(&r.made_at).replace('T', " ");
             Row::new(vec![
                 format!("{mark}{}", r.code),
@@ -266,10 +266,9 @@ fn render_detail(state: &State, d: &BatchDetailView, theme: Theme, frame: &mut F
         Line::from(format!("Made       {}", d.row.made_at.replace('T', " "))),
         Line::from(format!("Operator   {}", d.row.operator)),
         Line::from(format!("Size       {}", format_mass(d.row.size_g, unit))),
-        Line::from(if d.row.finalized {
-            "State      final (corrections are amendments)"
-        } else {
-            "State      open"
+        Line::from(match d.row.status.as_str() {
+            "draft" => "State      draft (measure, note, then finalise)".to_string(),
+            status => format!("State      {status} (corrections are amendments)"),
         }),
         Line::from(Span::styled("Lines (planned, lot)", theme.title())),
     ];
