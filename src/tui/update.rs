@@ -236,6 +236,10 @@ fn overlay_update(state: &mut State, command: Command) -> Vec<Effect> {
                         Vec::new()
                     }
                     (Some(item), PickerPurpose::Recipe(_)) => vec![Effect::LoadRecipe(item.key)],
+                    (Some(item), PickerPurpose::MeasurementKind { code, signed_off }) => {
+                        batch_forms::open_measurement_form(state, code, signed_off, &item.key);
+                        Vec::new()
+                    }
                     (None, purpose) => {
                         picker.purpose = purpose;
                         state.overlay = Some(Overlay::Picker(picker));

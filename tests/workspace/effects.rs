@@ -281,13 +281,11 @@ fn a_batch_goes_from_draft_to_amended() {
     run(&mut s, &mut services, Command::AddNote);
     type_text(&mut s, "Drawn at the slipway freezer");
     run(&mut s, &mut services, Command::Confirm);
+    // What was measured is picked from the list, then its value typed.
     run(&mut s, &mut services, Command::AddMeasurement);
+    type_text(&mut s, "freezing point c");
+    run(&mut s, &mut services, Command::Confirm);
     type_text(&mut s, "-2.6");
-    if let Some(Overlay::Form(f)) = &mut s.overlay {
-        f.focus = 0;
-    }
-    cmd(&mut s, Command::ClearField);
-    type_text(&mut s, "freezing-point-c");
     run(&mut s, &mut services, Command::Confirm);
     run(&mut s, &mut services, Command::Finalize);
     run(&mut s, &mut services, Command::Yes);

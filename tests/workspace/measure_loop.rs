@@ -160,10 +160,9 @@ fn a_cryoscope_reading_in_hortvet_is_accepted() {
         })),
     );
     cmd(&mut s, Command::AddMeasurement);
-    if let Some(Overlay::Form(f)) = &mut s.overlay {
-        f.focus = 0;
-    }
-    fill(&mut s, &["freezing-point-h", "-0.540"]);
+    type_text(&mut s, "freezing-point-h");
+    cmd(&mut s, Command::Confirm);
+    type_text(&mut s, "-0.540");
     let effects = cmd(&mut s, Command::Confirm);
     assert!(
         matches!(&effects[..], [Effect::AddMeasurement { kind, value, .. }]

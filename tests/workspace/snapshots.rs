@@ -236,6 +236,11 @@ fn scenes() -> Vec<(&'static str, State)> {
         ("warnings", warnings),
         ("recipe_fahrenheit_ounces", imperial),
         ("liqueur", liqueur_state()),
+        ("measurement_picker", {
+            let mut s = with_detail();
+            cmd(&mut s, Command::AddMeasurement);
+            s
+        }),
         ("characterise_form", characterise),
         ("compare", compare),
         ("calibrate_question", calibrate),

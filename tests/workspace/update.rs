@@ -683,14 +683,19 @@ fn notes_measurements_and_sign_off_need_an_operator() {
             reason: None,
         }]
     );
+    // What was measured is picked from a list (search as you type), not typed out.
     cmd(&mut s, Command::AddMeasurement);
-    type_text(&mut s, "-2.9");
-    let Some(Overlay::Form(f)) = &mut s.overlay else {
+    let Some(Overlay::Picker(p)) = &s.overlay else {
+        panic!("the list of measurement kinds expected");
+    };
+    assert_eq!(p.items.len(), gelu::batch::MeasurementKind::ALL.len());
+    type_text(&mut s, "freezing");
+    cmd(&mut s, Command::Confirm);
+    let Some(Overlay::Form(f)) = &s.overlay else {
         panic!("form expected");
     };
-    f.focus = 0;
-    cmd(&mut s, Command::ClearField);
-    type_text(&mut s, "freezing-point-c");
+    assert_eq!(f.fields[0].input.value(), "freezing-point-c");
+    type_text(&mut s, "-2.9");
     let effects = cmd(&mut s, Command::Confirm);
     assert!(
         matches!(&effects[..], [Effect::AddMeasurement { kind, value, .. }] if *kind == gelu::batch::MeasurementKind::FreezingPointC && (*value + 2.9).abs() < 1e-9)
@@ -747,6 +752,8 @@ fn on_a_signed_off_batch_a_note_or_a_reading_goes_on_the_trail_with_a_reason() {
         }]
     );
     cmd(&mut s, Command::AddMeasurement);
+    type_text(&mut s, "brix");
+    cmd(&mut s, Command::Confirm);
     type_text(&mut s, "31");
     assert!(
         cmd(&mut s, Command::Confirm).is_empty(),

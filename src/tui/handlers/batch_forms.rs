@@ -3,7 +3,8 @@
 
 use super::super::action::Effect;
 use super::super::state::{
-    BatchRequest, Field, Form, FormPurpose, Overlay, RecipeSource, Screen, State,
+    BatchRequest, Field, Form, FormPurpose, Overlay, PickItem, Picker, PickerPurpose, RecipeSource,
+    Screen, State,
 };
 use crate::analysis::Analysis;
 use crate::batch::plan::parse_size;
@@ -65,11 +66,36 @@ const REASON: &str = "Reason (after sign-off)";
 
 /// Opens the form that adds a reading; on a signed-off batch it asks for the
 /// reason too, as the reading goes on the record's trail.
-pub fn open_measurement_form(state: &mut State, code: String, signed_off: bool) {
-    let mut fields = vec![
-        Field::new("What", "brix"),
-        Field::new("Value", String::new()),
-    ];
+/// Opens the list of what can be measured, to pick from (search as you type);
+/// picking one opens [`open_measurement_form`].
+pub fn open_measurement_picker(state: &mut State, code: String, signed_off: bool) {
+    let mut picker = Picker {
+        purpose: PickerPurpose::MeasurementKind { code, signed_off },
+        title: "What was measured?".into(),
+        query: tui_input::Input::default(),
+        items: Vec::new(),
+        cursor: 0,
+    };
+    super::recipe::refresh_picker(state, &mut picker);
+    state.overlay = Some(Overlay::Picker(picker));
+}
+
+/// The measurement kinds as the picker lists them: the name typed in files and on
+/// the command line, what it is, and its unit.
+pub fn measurement_items() -> Vec<PickItem> {
+    MeasurementKind::ALL
+        .into_iter()
+        .map(|k| PickItem {
+            key: k.as_str().to_string(),
+            label: k.as_str().to_string(),
+            detail: k.unit().to_string(),
+        })
+        .collect()
+}
+
+/// Opens the form for a reading of `kind` (a measurement kind's name).
+pub fn open_measurement_form(state: &mut State, code: String, signed_off: bool, kind: &str) {
+    let mut fields = vec![Field::new("What", kind), Field::new("Value", String::new())];
     if signed_off {
         fields.push(Field::new(REASON, String::new()));
     }

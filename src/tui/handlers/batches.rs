@@ -8,7 +8,7 @@ use super::super::state::{
     BatchPage, CompareRequest, CompareView, KindView, Overlay, PromptPurpose, Question, State,
 };
 use super::batch_forms::{
-    open_amend_form, open_batch_form, open_measurement_form, open_trail_note_form, signer,
+    open_amend_form, open_batch_form, open_measurement_picker, open_trail_note_form, signer,
 };
 use super::common::{move_cursor, prompt};
 use crate::measure::Scope;
@@ -34,7 +34,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
         let finalized = detail.row.finalized;
         match command {
             Command::Cancel => state.batches.detail = None,
-            Command::AddMeasurement => open_measurement_form(state, code, finalized),
+            Command::AddMeasurement => open_measurement_picker(state, code, finalized),
             Command::AddNote if finalized => open_trail_note_form(state, code),
             Command::AddNote => prompt(
                 state,

@@ -359,6 +359,14 @@ pub fn refresh_picker(state: &State, picker: &mut Picker) {
                 ))
             })
             .collect(),
+        PickerPurpose::MeasurementKind { .. } => super::batch_forms::measurement_items()
+            .into_iter()
+            .filter_map(|item| {
+                let rank = search_key(&item.label, &item.key, &query)?;
+                // The usual order (the log's) when nothing is typed.
+                Some(((false, rank, String::new()), item))
+            })
+            .collect(),
         PickerPurpose::Recipe(entries) => entries
             .iter()
             .filter_map(|e| {

@@ -65,6 +65,14 @@ pub enum PickerPurpose {
     Ingredient,
     /// A recipe in the database to open.
     Recipe(Vec<RecipeEntry>),
+    /// What a measurement of this batch is of (its code, and whether it is
+    /// signed off, so the reading goes on its trail).
+    MeasurementKind {
+        /// The batch's code.
+        code: String,
+        /// Whether it is signed off.
+        signed_off: bool,
+    },
 }
 
 /// One row the picker offers.
