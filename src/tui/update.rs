@@ -275,11 +275,13 @@ fn overlay_update(state: &mut State, command: Command) -> Vec<Effect> {
         Overlay::Form(mut form) => match command {
             Command::Cancel => Vec::new(),
             Command::NextField => {
+                unselect(&mut form);
                 form.focus = (form.focus + 1) % form.fields.len().max(1);
                 state.overlay = Some(Overlay::Form(form));
                 Vec::new()
             }
             Command::PrevField => {
+                unselect(&mut form);
                 let n = form.fields.len().max(1);
                 form.focus = (form.focus + n - 1) % n;
                 state.overlay = Some(Overlay::Form(form));
@@ -359,17 +361,37 @@ fn edit_text(state: &mut State, request: InputRequest) {
     let Some(overlay) = state.overlay.as_mut() else {
         return;
     };
+    let replaces = !matches!(
+        request,
+        InputRequest::GoToPrevChar
+            | InputRequest::GoToNextChar
+            | InputRequest::GoToStart
+            | InputRequest::GoToEnd
+    );
+    // A form's selected starting value, likewise: typing replaces it.
+    if let Overlay::Form(f) = overlay {
+        let focus = f.focus;
+        if let Some(field) = f.fields.get_mut(focus)
+            && field.selected
+        {
+            field.selected = false;
+            if replaces {
+                field.input = Input::default();
+                if matches!(request, InputRequest::InsertChar(_)) {
+                    field.input.handle(request);
+                }
+                if let Some(Overlay::Form(mut form)) = state.overlay.take() {
+                    check_form(state, &mut form);
+                    state.overlay = Some(Overlay::Form(form));
+                }
+                return;
+            }
+        }
+    }
     if let Overlay::Prompt(p) = overlay
         && p.selected
     {
         p.selected = false;
-        let replaces = !matches!(
-            request,
-            InputRequest::GoToPrevChar
-                | InputRequest::GoToNextChar
-                | InputRequest::GoToStart
-                | InputRequest::GoToEnd
-        );
         if replaces {
             p.input = Input::default();
             if matches!(request, InputRequest::InsertChar(_)) {
@@ -405,6 +427,13 @@ fn edit_text(state: &mut State, request: InputRequest) {
             state.overlay = Some(Overlay::Form(form));
         }
         other => state.overlay = other,
+    }
+}
+
+/// The field in focus keeps its text as it is when the focus leaves it.
+fn unselect(form: &mut super::state::Form) {
+    if let Some(field) = form.fields.get_mut(form.focus) {
+        field.selected = false;
     }
 }
 

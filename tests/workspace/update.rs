@@ -1075,3 +1075,23 @@ fn the_batch_log_is_read_again_when_shown_and_on_r() {
     assert_eq!(loads(&effects), 1);
     assert!(effects.iter().any(|e| matches!(e, Effect::LoadSyncState)));
 }
+
+#[test]
+fn typing_over_a_forms_starting_value_replaces_it() {
+    // The batch form offers the recipe's size, selected: typing 5 kg over 1000
+    // must not make it 10005 kg.
+    let mut s = loaded_state();
+    s.settings.operator = "RW".into();
+    cmd(&mut s, Command::StartBatch);
+    type_text(&mut s, "5 kg");
+    let Some(Overlay::Form(f)) = &s.overlay else {
+        panic!("batch form expected");
+    };
+    assert_eq!(f.fields[0].input.value(), "5 kg");
+    // Once edited (or left), the field takes typing at its cursor again.
+    type_text(&mut s, "g");
+    let Some(Overlay::Form(f)) = &s.overlay else {
+        panic!("batch form expected");
+    };
+    assert_eq!(f.fields[0].input.value(), "5 kgg");
+}

@@ -129,14 +129,20 @@ pub struct Field {
     pub input: Input,
     /// Why the field's text is not accepted, when it is not.
     pub problem: Option<String>,
+    /// Whether its starting value is selected: typing replaces it (as in a
+    /// prompt), until it is edited or the focus leaves it.
+    pub selected: bool,
 }
 
 impl Field {
     /// A field with a label and a starting value.
+    /// A field with a label and a starting value, shown selected when there is one.
     pub fn new(label: impl Into<String>, value: impl Into<String>) -> Field {
+        let value = value.into();
         Field {
             label: label.into(),
-            input: Input::new(value.into()),
+            selected: !value.is_empty(),
+            input: Input::new(value),
             problem: None,
         }
     }

@@ -213,7 +213,13 @@ fn form(f: &Form, theme: Theme, frame: &mut Frame, area: Rect) {
             width: inner.width.saturating_sub(label_w + 1),
             height: 1,
         };
-        text_field(&field.input, frame, value_area, focused, None);
+        text_field(
+            &field.input,
+            frame,
+            value_area,
+            focused,
+            (focused && field.selected).then(|| theme.selected()),
+        );
         if let Some(problem) = &field.problem
             && per == 2
         {
