@@ -92,6 +92,10 @@ commands! {
     CharacteriseIngredient => "characterise", "Characterise an ingredient of your own from measured freezing points";
     AddToRecipe => "add-to-recipe", "Add the ingredient under the cursor to the recipe";
     OpenDetail => "open-detail", "Open the batch under the cursor";
+    NewRecipe => "new-recipe", "Start a new, blank recipe of a style (asks first over unsaved changes)";
+    CopyToFile => "copy-to-file", "Write a copy of the recipe to a new TOML file";
+    MakeAgain => "make-again", "Open the recipe version this batch was made from, to make it again";
+    ExportBatches => "export-batches", "Export the batches shown to a CSV or JSON Lines file";
     RefreshBatches => "refresh-batches", "Read the batch log again (what other terminals and the command line wrote)";
     FilterRecipe => "filter-recipe", "Show only batches of the recipe in the editor (again: all)";
     FilterDate => "filter-date", "Show only batches made on or after a date";
@@ -196,6 +200,22 @@ pub enum Effect {
     Quit,
     /// Read a recipe file.
     OpenFile(PathBuf),
+    /// Write a copy of the recipe to a new file (never over an existing one).
+    CopyToFile {
+        /// The new file.
+        path: PathBuf,
+        /// The recipe as in the editor.
+        recipe: Recipe,
+    },
+    /// Open the recipe version a batch was made from.
+    LoadBatchRecipe(String),
+    /// Export the batches a query shows (all of them, not only the loaded page).
+    ExportBatches {
+        /// Which batches.
+        query: super::state::BatchQuery,
+        /// The new file; its extension (.csv, else JSON Lines) picks the format.
+        path: PathBuf,
+    },
     /// Write the recipe back to its file, keeping the comments and layout of `original`.
     SaveFile {
         /// The file.

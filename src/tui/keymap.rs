@@ -219,6 +219,8 @@ pub const KEYMAP: &[Binding] = &[
     bind(RECIPE, Key::ch('v'), Command::SaveVersion, None),
     bind(RECIPE, Key::ch('o'), Command::OpenRecipe, None),
     bind(RECIPE, Key::ch('O'), Command::OpenFile, None),
+    bind(RECIPE, Key::ch('N'), Command::NewRecipe, None),
+    bind(RECIPE, Key::ch('W'), Command::CopyToFile, None),
     bind(
         RECIPE,
         Key::ch('w'),
@@ -232,6 +234,7 @@ pub const KEYMAP: &[Binding] = &[
         Some("batch"),
     ),
     bind(BATCHES, Key::ch('S'), Command::SyncNow, Some("sync")),
+    bind(BATCHES, Key::ch('x'), Command::ExportBatches, None),
     bind(
         &[C::Batches, C::BatchDetail],
         Key::ch('r'),
@@ -352,6 +355,7 @@ pub const KEYMAP: &[Binding] = &[
     bind(DETAIL, Key::ch('F'), Command::Finalize, Some("finalise")),
     bind(DETAIL, Key::ch('A'), Command::Amend, Some("amend")),
     bind(BACK, Key::plain(K::Esc), Command::Cancel, Some("back")),
+    bind(DETAIL, Key::ch('e'), Command::MakeAgain, Some("make again")),
     // Settings.
     bind(
         SETTINGS,

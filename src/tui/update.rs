@@ -236,6 +236,12 @@ fn overlay_update(state: &mut State, command: Command) -> Vec<Effect> {
                         Vec::new()
                     }
                     (Some(item), PickerPurpose::Recipe(_)) => vec![Effect::LoadRecipe(item.key)],
+                    (Some(item), PickerPurpose::Style) => {
+                        if let Some(style) = crate::model::Style::parse(&item.key) {
+                            recipe::new_blank(state, style);
+                        }
+                        Vec::new()
+                    }
                     (Some(item), PickerPurpose::MeasurementKind { code, signed_off }) => {
                         batch_forms::open_measurement_form(state, code, signed_off, &item.key);
                         Vec::new()
@@ -511,9 +517,10 @@ fn apply_prompt(state: &mut State, prompt: super::state::Prompt) -> Vec<Effect> 
         | P::ServingTarget
         | P::Rename
         | P::SaveAsName
-        | P::OpenFilePath => recipe::accept(state, &prompt.purpose, &text),
+        | P::OpenFilePath
+        | P::CopyToFile => recipe::accept(state, &prompt.purpose, &text),
         P::IngredientSearch => Ok(Vec::new()),
-        P::BatchSearch | P::BatchSince | P::BatchNote(_) => {
+        P::BatchSearch | P::BatchSince | P::BatchNote(_) | P::ExportBatches => {
             batches::accept(state, &prompt.purpose, &text)
         }
         P::Setting(field) => settings::accept(state, *field, &text),

@@ -635,3 +635,91 @@ fn a_recipe_the_reader_would_refuse_is_never_saved() {
         "nothing is written that would not read back"
     );
 }
+
+#[test]
+fn the_basics_a_maker_reaches_for_new_copy_make_again_export() {
+    let dir = tempdir();
+    let db = dir.path().join("log.db");
+    let (mut s, mut services) = open(&db, None);
+    s.settings.operator = "RW".into();
+    // Copy the recipe out to a new TOML file; a second copy never overwrites it.
+    let copy = dir.path().join("vanilla-copy.toml");
+    run(&mut s, &mut services, Command::CopyToFile);
+    cmd(&mut s, Command::ClearField);
+    type_text(&mut s, &copy.display().to_string());
+    run(&mut s, &mut services, Command::Confirm);
+    let text = std::fs::read_to_string(&copy).unwrap_or_default();
+    let back = gelu::recipe_file::parse_recipe(&copy, &text);
+    assert!(
+        back.is_ok_and(|r| r.lines == s.recipe.recipe.lines),
+        "{text}"
+    );
+    run(&mut s, &mut services, Command::CopyToFile);
+    cmd(&mut s, Command::ClearField);
+    type_text(&mut s, &copy.display().to_string());
+    run(&mut s, &mut services, Command::Confirm);
+    assert_eq!(std::fs::read_to_string(&copy).unwrap_or_default(), text);
+    assert!(
+        s.message
+            .as_ref()
+            .is_some_and(|m| m.text.contains("unchanged")
+                || m.text.contains("exists")
+                || m.text.contains("appeared")),
+        "{:?}",
+        s.message
+    );
+    // Two batches of it.
+    for size in ["3 kg", "4 kg"] {
+        cmd(&mut s, Command::ShowRecipe);
+        run(&mut s, &mut services, Command::StartBatch);
+        cmd(&mut s, Command::ClearField);
+        type_text(&mut s, size);
+        run(&mut s, &mut services, Command::Confirm);
+    }
+    let Some(detail) = s.batches.detail.clone() else {
+        panic!("the batch opens: {:?}", s.message);
+    };
+    // Make it again: the batch's recipe version opens in the editor.
+    let version = detail.row.version;
+    run(&mut s, &mut services, Command::MakeAgain);
+    assert_eq!(s.screen, Screen::Recipe, "the recipe opens in the editor");
+    assert!(
+        matches!(&s.recipe.source, RecipeSource::Database { version: v, .. } if *v == version),
+        "{:?}",
+        s.recipe.source
+    );
+    assert_eq!(s.recipe.recipe.name, detail.row.recipe_name);
+    // Export the batches shown: CSV and JSON Lines, never over a file.
+    run(&mut s, &mut services, Command::ShowBatches);
+    cmd(&mut s, Command::Cancel);
+    for (file, lines) in [("shown.jsonl", 2usize), ("shown.csv", 0)] {
+        let path = dir.path().join(file);
+        run(&mut s, &mut services, Command::ExportBatches);
+        cmd(&mut s, Command::ClearField);
+        type_text(&mut s, &path.display().to_string());
+        run(&mut s, &mut services, Command::Confirm);
+        let out = std::fs::read_to_string(&path).unwrap_or_default();
+        assert!(!out.is_empty(), "{:?} {:?}", s.message, s.overlay.is_some());
+        if lines > 0 {
+            assert_eq!(out.lines().count(), lines, "{out}");
+        } else {
+            assert!(out.starts_with("code,"), "{out}");
+            assert!(out.contains(&detail.row.code), "{out}");
+        }
+        assert!(
+            s.message
+                .as_ref()
+                .is_some_and(|m| m.text.contains("2 batch(es) exported")),
+            "{:?}",
+            s.message
+        );
+    }
+    // A blank recipe of a style, picked from the list.
+    cmd(&mut s, Command::ShowRecipe);
+    run(&mut s, &mut services, Command::NewRecipe);
+    type_text(&mut s, "liqueur");
+    run(&mut s, &mut services, Command::Confirm);
+    assert_eq!(s.recipe.recipe.style, gelu::model::Style::Liqueur);
+    assert!(s.recipe.recipe.lines.is_empty());
+    assert!(matches!(s.recipe.source, RecipeSource::New));
+}

@@ -103,6 +103,39 @@ impl Services {
         Ok(match effect {
             Effect::Quit => Vec::new(),
             Effect::OpenFile(path) => vec![self.open_file(&path)?],
+            Effect::CopyToFile { path, recipe } => {
+                // A copy never lands over a file: it is a new file, or nothing.
+                crate::recipe_file::save_recipe(
+                    &path,
+                    None,
+                    &recipe,
+                    crate::recipe_file::Expect::Absent,
+                )?;
+                vec![Action::Info(format!(
+                    "A copy of {} is in {} (the recipe in the editor is unchanged).",
+                    recipe.name,
+                    path.display()
+                ))]
+            }
+            Effect::LoadBatchRecipe(code) => vec![self.load_batch_recipe(&code)?],
+            Effect::ExportBatches { query, path } => {
+                let format = if path
+                    .extension()
+                    .is_some_and(|e| e.eq_ignore_ascii_case("csv"))
+                {
+                    crate::batch::export::Format::Csv
+                } else {
+                    crate::batch::export::Format::Jsonl
+                };
+                let mut filter = batch_filter(&query)?;
+                filter.limit = 0;
+                filter.after = None;
+                let count = export_to_new_file(s, &filter, format, &path)?;
+                vec![Action::Info(format!(
+                    "{count} batch(es) exported to {}.",
+                    path.display()
+                ))]
+            }
             Effect::SaveFile {
                 path,
                 original,
@@ -279,6 +312,27 @@ impl Services {
         Ok(loaded_file(path, recipe, text))
     }
 
+    /// The recipe version a batch was made from, in the editor as that version of
+    /// the log's recipe (saving it makes the next version).
+    fn load_batch_recipe(&self, code: &str) -> anyhow::Result<Action> {
+        let batch = self
+            .store
+            .batch(code)?
+            .ok_or_else(|| anyhow::anyhow!("there is no batch {code}"))?;
+        let v = batch.recipe;
+        let label = PathBuf::from(format!("{} version {} (database)", v.recipe, v.version));
+        let (recipe, _) =
+            parse_recipe_using(&label, &v.text, &self.own()).map_err(|e| anyhow::anyhow!("{e}"))?;
+        Ok(Action::RecipeLoaded {
+            recipe,
+            source: RecipeSource::Database {
+                name: v.recipe,
+                version: v.version,
+                text: v.text,
+            },
+        })
+    }
+
     fn load(&self, name: &str) -> Action {
         let found = self
             .store
@@ -362,21 +416,57 @@ fn save_version(store: &mut Store, recipe: Recipe) -> anyhow::Result<Action> {
     })
 }
 
-fn load_page(store: &Store, query: BatchQuery) -> anyhow::Result<BatchPage> {
+/// Writes an export to `path`, a file that must not exist yet: streamed into a
+/// file beside it, which is then linked into place (a link never replaces a file),
+/// so a failure leaves nothing half written at `path`.
+fn export_to_new_file(
+    store: &Store,
+    filter: &BatchFilter,
+    format: crate::batch::export::Format,
+    path: &Path,
+) -> anyhow::Result<usize> {
+    use std::io::Write as _;
+    if path.exists() {
+        anyhow::bail!("{} already exists; give a new file", path.display());
+    }
+    let mut tmp = path.as_os_str().to_owned();
+    tmp.push(".exporting");
+    let tmp = PathBuf::from(tmp);
+    let written = (|| -> anyhow::Result<usize> {
+        let file = std::fs::File::create_new(&tmp)
+            .with_context(|| format!("could not create {}", tmp.display()))?;
+        let mut out = std::io::BufWriter::new(file);
+        let count = store.export(filter, format, &mut out)?;
+        out.flush()?;
+        out.into_inner().map_err(|e| e.into_error())?.sync_all()?;
+        std::fs::hard_link(&tmp, path)
+            .with_context(|| format!("{} could not be written", path.display()))?;
+        Ok(count)
+    })();
+    let _ = std::fs::remove_file(&tmp);
+    written
+}
+
+/// The store's filter for what the batch log screen shows.
+fn batch_filter(query: &BatchQuery) -> anyhow::Result<BatchFilter> {
     let since = query
         .since
         .as_deref()
         .map(|day| parse_date_bound(day, DayEnd::Start))
         .transpose()
         .map_err(anyhow::Error::msg)?;
-    let filter = BatchFilter {
+    Ok(BatchFilter {
         recipe: query.recipe.clone(),
         since,
         until: None,
         search: (!query.text.trim().is_empty()).then(|| query.text.clone()),
         limit: query.limit + 1,
         after: query.before.clone(),
-    };
+    })
+}
+
+fn load_page(store: &Store, query: BatchQuery) -> anyhow::Result<BatchPage> {
+    let filter = batch_filter(&query)?;
     let mut rows: Vec<_> = store
         .list_batches(&filter)?
         .iter()

@@ -5,7 +5,8 @@
 
 use super::super::action::{Command, Effect};
 use super::super::state::{
-    BatchPage, CompareRequest, CompareView, KindView, Overlay, PromptPurpose, Question, State,
+    BatchPage, CompareRequest, CompareView, KindView, OpenFrom, Overlay, PromptPurpose, Question,
+    State,
 };
 use super::batch_forms::{
     open_amend_form, open_batch_form, open_measurement_picker, open_trail_note_form, signer,
@@ -51,6 +52,9 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
             }
             Command::Amend => open_amend_form(state, code),
             Command::RefreshBatches => return refresh(state),
+            Command::MakeAgain => {
+                return super::recipe::open_or_ask(state, OpenFrom::BatchRecipe);
+            }
             _ => {}
         }
         return Vec::new();
@@ -67,6 +71,12 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
             }
         }
         Command::RefreshBatches => return refresh(state),
+        Command::ExportBatches => prompt(
+            state,
+            PromptPurpose::ExportBatches,
+            "Export the batches shown to the new file (.csv, or .jsonl for JSON Lines)".into(),
+            "batches.csv".into(),
+        ),
         Command::Search => {
             let text = state.batches.query.text.clone();
             prompt(
@@ -297,6 +307,15 @@ pub fn accept(
         PromptPurpose::BatchSearch => {
             state.batches.query.text = text.to_string();
             Ok(reload(state))
+        }
+        PromptPurpose::ExportBatches => {
+            if text.is_empty() {
+                return Err("type the path of the new file, like batches.csv".into());
+            }
+            Ok(vec![Effect::ExportBatches {
+                query: state.batches.query.clone(),
+                path: text.into(),
+            }])
         }
         PromptPurpose::BatchSince => {
             if text.is_empty() {

@@ -5,7 +5,7 @@
 use tui_input::Input;
 
 use crate::batch::plan::parse_size;
-use crate::model::{Amount, Line, MassUnit, Recipe, SoluteKind};
+use crate::model::{Amount, Line, MassUnit, Recipe, SoluteKind, Style};
 
 use super::super::action::{Command, Effect};
 use super::super::state::{
@@ -110,6 +110,28 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
         }
         Command::OpenRecipe => return open_or_ask(state, OpenFrom::Log),
         Command::OpenFile => return open_or_ask(state, OpenFrom::File),
+        Command::NewRecipe => return open_or_ask(state, OpenFrom::Blank),
+        Command::CopyToFile => {
+            let name: String = state
+                .recipe
+                .recipe
+                .name
+                .chars()
+                .map(|c| {
+                    if c.is_alphanumeric() {
+                        c.to_ascii_lowercase()
+                    } else {
+                        '-'
+                    }
+                })
+                .collect();
+            prompt(
+                state,
+                PromptPurpose::CopyToFile,
+                "Write a copy of the recipe to the new file".into(),
+                format!("{}.toml", name.trim_matches('-')),
+            );
+        }
         Command::ShowWarnings => {
             state.overlay = Some(Overlay::Reader(
                 super::super::state::ReaderKind::Warnings,
@@ -169,7 +191,7 @@ fn redo(state: &mut State) {
 
 /// Opens another recipe, asking first when the one in the editor has unsaved
 /// changes (as quitting does, with a choice to save first).
-fn open_or_ask(state: &mut State, from: OpenFrom) -> Vec<Effect> {
+pub fn open_or_ask(state: &mut State, from: OpenFrom) -> Vec<Effect> {
     if state.recipe.is_dirty() {
         state.overlay = Some(Overlay::Confirm(Question::OpenUnsaved(from)));
         Vec::new()
@@ -183,6 +205,22 @@ fn open_or_ask(state: &mut State, from: OpenFrom) -> Vec<Effect> {
 pub fn open(state: &mut State, from: OpenFrom) -> Vec<Effect> {
     match from {
         OpenFrom::Log => vec![Effect::ListRecipes],
+        OpenFrom::Blank => {
+            let mut picker = Picker {
+                purpose: PickerPurpose::Style,
+                title: "A new recipe of which style?".into(),
+                query: Input::default(),
+                items: Vec::new(),
+                cursor: 0,
+            };
+            refresh_picker(state, &mut picker);
+            state.overlay = Some(Overlay::Picker(picker));
+            Vec::new()
+        }
+        OpenFrom::BatchRecipe => match &state.batches.detail {
+            Some(detail) => vec![Effect::LoadBatchRecipe(detail.row.code.clone())],
+            None => Vec::new(),
+        },
         OpenFrom::File => {
             prompt(
                 state,
@@ -359,6 +397,24 @@ pub fn refresh_picker(state: &State, picker: &mut Picker) {
                 ))
             })
             .collect(),
+        PickerPurpose::Style => Style::ALL
+            .into_iter()
+            .filter_map(|style| {
+                let rank = search_key(style.as_str(), style.as_str(), &query)?;
+                Some((
+                    (false, rank, String::new()),
+                    PickItem {
+                        key: style.as_str().to_string(),
+                        label: style.as_str().to_string(),
+                        detail: if style.is_drink() {
+                            "liqueurs and spirits".into()
+                        } else {
+                            "frozen desserts".into()
+                        },
+                    },
+                ))
+            })
+            .collect(),
         PickerPurpose::MeasurementKind { .. } => super::batch_forms::measurement_items()
             .into_iter()
             .filter_map(|item| {
@@ -508,6 +564,16 @@ pub fn accept(
             }
             return Ok(vec![Effect::OpenFile(path.into())]);
         }
+        PromptPurpose::CopyToFile => {
+            let path = text.trim();
+            if path.is_empty() {
+                return Err("type the path of the new .toml file".into());
+            }
+            return Ok(vec![Effect::CopyToFile {
+                path: path.into(),
+                recipe: state.recipe.recipe.clone(),
+            }]);
+        }
         _ => {}
     }
     Ok(Vec::new())
@@ -520,4 +586,15 @@ fn non_empty_name(text: &str) -> Result<String, String> {
     } else {
         Ok(name.to_string())
     }
+}
+
+/// A new, blank recipe of `style` in the editor (not saved until the user saves it).
+pub fn new_blank(state: &mut State, style: Style) {
+    let recipe = Recipe {
+        name: format!("New {}", style.as_str().replace('-', " ")),
+        style,
+        ..Recipe::default()
+    };
+    loaded(state, recipe, RecipeSource::New);
+    state.tell("A new recipe: add its lines with a, name it with r, save it with Ctrl-S.");
 }

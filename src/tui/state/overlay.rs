@@ -40,6 +40,10 @@ pub enum PromptPurpose {
     Price(String),
     /// The strength (% vol) to reduce the recipe to with water.
     ReduceToStrength,
+    /// A new file to write a copy of the recipe to.
+    CopyToFile,
+    /// A file to export the batches shown to (.csv or .jsonl).
+    ExportBatches,
 }
 
 /// A one-line prompt.
@@ -65,6 +69,8 @@ pub enum PickerPurpose {
     Ingredient,
     /// A recipe in the database to open.
     Recipe(Vec<RecipeEntry>),
+    /// The style of a new, blank recipe.
+    Style,
     /// What a measurement of this batch is of (its code, and whether it is
     /// signed off, so the reading goes on its trail).
     MeasurementKind {
@@ -179,6 +185,10 @@ pub enum OpenFrom {
     Log,
     /// A recipe file.
     File,
+    /// A new, blank recipe (its style picked from a list).
+    Blank,
+    /// The recipe version the batch open in the detail was made from, to make it again.
+    BatchRecipe,
 }
 
 /// What to do once a save asked for by a question has gone through.
