@@ -352,3 +352,54 @@ fn reduce_to_strength_is_refused_without_alcohol() {
             .is_some_and(|m| m.text.contains("no alcohol"))
     );
 }
+
+#[test]
+fn with_fahrenheit_settings_the_panel_reads_and_shows_temperatures_in_fahrenheit() {
+    use gelu::model::units::TempUnit;
+    let mut s = loaded_state();
+    s.settings.temp_unit = TempUnit::Fahrenheit;
+    // -13 °C is 8.6 °F (F = C x 9/5 + 32).
+    cmd(&mut s, Command::OpenBalance);
+    let screen = crate::common::draw(&s, 120, 40);
+    assert!(screen.contains("frozen_at.8.6°F"), "{screen}");
+    assert!(!screen.contains("frozen_at.-13"), "{screen}");
+    // A bare temperature is in the settings' unit: 28 °F is -2.22 °C.
+    cmd(&mut s, Command::AddTarget);
+    type_text(&mut s, "freezing_point_c=28..30");
+    cmd(&mut s, Command::Confirm);
+    assert!(s.overlay.is_none(), "{:?}", prompt_error(&s));
+    let t = panel(&s)
+        .request
+        .targets
+        .iter()
+        .find(|t| t.figure == Figure::FreezingPointC)
+        .cloned();
+    let (low, high) = t.map_or((f64::NAN, f64::NAN), |t| {
+        (t.low.unwrap_or(f64::NAN), t.high.unwrap_or(f64::NAN))
+    });
+    assert!((low - (-2.222)).abs() < 0.001, "{low}");
+    assert!((high - (-1.111)).abs() < 0.001, "{high}");
+    let screen = crate::common::draw(&s, 120, 40);
+    assert!(screen.contains("28..30"), "{screen}");
+    // A frozen share at a temperature typed with its unit: 14 °F is -10 °C.
+    cmd(&mut s, Command::AddTarget);
+    type_text(&mut s, "frozen_at.14F=0.6..0.7");
+    cmd(&mut s, Command::Confirm);
+    assert!(s.overlay.is_none(), "{:?}", prompt_error(&s));
+    assert!(
+        names(&s).contains(&"frozen_at.-10".to_string()),
+        "{:?}",
+        names(&s)
+    );
+    // Editing the cabinet share keeps its temperature.
+    to_target(&mut s, "frozen_at.-13");
+    cmd(&mut s, Command::EditBalanceRow);
+    cmd(&mut s, Command::ClearField);
+    type_text(&mut s, "0.6..0.66");
+    cmd(&mut s, Command::Confirm);
+    assert!(
+        names(&s).contains(&"frozen_at.-13".to_string()),
+        "{:?}",
+        names(&s)
+    );
+}

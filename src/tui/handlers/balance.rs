@@ -10,12 +10,15 @@ use crate::balance::{
     Figure, Objective, Request, Status, Target, WATER_ID, balance, parse_target, reduce_to_strength,
 };
 use crate::catalog::{Catalog, suggest_text};
-use crate::model::units::{parse_number, trim_number};
+use crate::model::units::{TempUnit, parse_number, trim_number};
 use crate::model::{Recipe, Style};
 
 use super::super::action::{Command, Effect};
 use super::super::keymap::key_label;
-use super::super::state::{BalancePanel, Context, PromptPurpose, State};
+use super::super::state::{
+    BalancePanel, Context, PromptPurpose, State, name_in_celsius, shown_name, shown_range,
+    value_in_celsius,
+};
 use super::common::{move_cursor, prompt};
 use super::recipe::change;
 
@@ -209,11 +212,12 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
                 else {
                     return Vec::new();
                 };
+                let unit = state.settings.temp_unit;
                 let title = format!(
                     "Range of {}: a value like 7, or LOW..HIGH like 6..9",
-                    t.figure.name()
+                    shown_name(&t.figure, unit)
                 );
-                let text = t.range_text();
+                let text = shown_range(t, unit);
                 prompt(state, PromptPurpose::BalanceTarget(Some(k)), title, text);
             }
             None => {
@@ -236,7 +240,14 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
         Command::AddTarget => prompt(
             state,
             PromptPurpose::BalanceTarget(None),
-            "Add a target, like fat_pct=6..9 or frozen_at.-12=0.65..0.70".into(),
+            format!(
+                "Add a target, like fat_pct=6..9 or frozen_at.{}=0.65..0.70 (temperatures in {})",
+                match state.settings.temp_unit {
+                    TempUnit::Celsius => "-12",
+                    TempUnit::Fahrenheit => "10",
+                },
+                state.settings.temp_unit.symbol()
+            ),
             String::new(),
         ),
         Command::DeleteTarget => match target {
@@ -381,18 +392,35 @@ pub fn accept(
 /// Reads a target typed into the panel: as on the command line, but with both
 /// ends (or one value), the form a recipe file keeps.
 fn read_target(state: &State, at: Option<usize>, text: &str) -> Result<Target, String> {
+    // Temperatures are read in the settings' unit and kept in °C, as files keep them.
+    let unit = state.settings.temp_unit;
     let full = match at {
         Some(k) => {
-            let name = state
+            let Some(figure) = state
                 .recipe
                 .balance
                 .as_ref()
                 .and_then(|p| p.request.targets.get(k))
-                .map(|t| t.figure.name())
-                .unwrap_or_default();
-            format!("{name}={text}")
+                .map(|t| t.figure.clone())
+            else {
+                return Err("that target is gone".into());
+            };
+            format!(
+                "{}={}",
+                figure.name(),
+                value_in_celsius(&figure, text, unit)?
+            )
         }
-        None => text.to_string(),
+        None => match text.split_once('=') {
+            Some((name, value)) => {
+                let name = name_in_celsius(name, unit)?;
+                match Figure::parse(&name) {
+                    Ok(figure) => format!("{name}={}", value_in_celsius(&figure, value, unit)?),
+                    Err(_) => format!("{name}={value}"),
+                }
+            }
+            None => text.to_string(),
+        },
     };
     let target = parse_target(&full).map_err(|e| e.to_string())?;
     if target.low.is_none() || target.high.is_none() {

@@ -18,7 +18,9 @@ mod context;
 mod overlay;
 mod search;
 
-pub use balance::BalancePanel;
+pub use balance::{
+    BalancePanel, name_in_celsius, shown_name, shown_range, shown_temperature, value_in_celsius,
+};
 pub use batches::*;
 pub use context::Context;
 pub use overlay::*;

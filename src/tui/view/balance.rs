@@ -9,8 +9,9 @@ use ratatui::layout::{Constraint, Layout, Rect};
 use ratatui::text::{Line, Span};
 use ratatui::widgets::{Block, Cell, Paragraph, Row, Table, TableState};
 
+use super::super::state::{shown_name, shown_range, shown_temperature};
 use crate::balance::{Balance, Figure, Objective, Status};
-use crate::model::units::{G_PER_OZ, trim_number};
+use crate::model::units::{G_PER_OZ, TempUnit, trim_number};
 use crate::model::{Amount, MassUnit};
 
 use super::super::action::Command;
@@ -131,6 +132,7 @@ fn render_targets(
 ) {
     let lines = state.recipe.recipe.lines.len();
     let wide = area.width >= 50;
+    let unit = state.settings.temp_unit;
     let rows: Vec<Row> = panel
         .request
         .targets
@@ -142,7 +144,7 @@ fn render_targets(
             let result = answer.and_then(|b| b.targets.iter().find(|r| r.name == t.figure.name()));
             let value = result
                 .and_then(|r| r.value)
-                .map_or("-".to_string(), |v| value_text(&t.figure, v, wide));
+                .map_or("-".to_string(), |v| value_text(&t.figure, v, wide, unit));
             let verdict = match result {
                 Some(r) if !r.met => "!!",
                 Some(r) if r.binding => "=",
@@ -154,8 +156,8 @@ fn render_targets(
                 ratatui::style::Style::new()
             };
             Row::new(vec![
-                Cell::from(format!("{mark}{}", t.figure.name())),
-                Cell::from(t.range_text()),
+                Cell::from(format!("{mark}{}", shown_name(&t.figure, unit))),
+                Cell::from(shown_range(t, unit)),
                 Cell::from(Line::from(value).right_aligned()),
                 Cell::from(verdict),
             ])
@@ -190,7 +192,14 @@ fn render_targets(
 }
 
 /// A target's value for the panel: with its unit when there is room.
-fn value_text(figure: &Figure, v: f64, wide: bool) -> String {
+fn value_text(figure: &Figure, v: f64, wide: bool, unit: TempUnit) -> String {
+    if let Some(shown) = shown_temperature(figure, v, unit) {
+        return if wide {
+            format!("{shown:.2} {}", unit.symbol())
+        } else {
+            format!("{shown:.2}")
+        };
+    }
     if wide {
         figure.value_text(v)
     } else {
