@@ -93,13 +93,12 @@ impl Setting<'_> {
         recipe: &str,
         style: Option<Style>,
     ) -> Option<&Correction> {
-        let of = |scope: &Scope| {
-            self.corrections
-                .iter()
-                .find(|c| c.kind == kind.as_str() && &c.scope == scope)
-        };
-        of(&Scope::Recipe(recipe.to_string()))
-            .or_else(|| style.and_then(|s| of(&Scope::Style(s.as_str().to_string()))))
+        measure::correction_for(
+            self.corrections,
+            kind.as_str(),
+            recipe,
+            style.map(|s| s.as_str()),
+        )
     }
 }
 

@@ -10,6 +10,7 @@ use std::io::Write;
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
+use super::own::LogCorrections;
 use crate::balance::{Balance, Objective, Request, Status, Target, balance, parse_target};
 use crate::catalog::Catalog;
 use crate::model::OwnItems;
@@ -92,6 +93,7 @@ fn balance_file(
     path: &Path,
     args: &BalanceArgs,
     own: &OwnItems,
+    log: &LogCorrections,
     out: &mut impl Write,
 ) -> anyhow::Result<Outcome> {
     let text = match std::fs::read_to_string(path) {
@@ -122,7 +124,11 @@ fn balance_file(
     };
     if args.json {
         let file = path.display().to_string();
-        writeln!(out, "{}", balance_json(&file, &b))?;
+        let calibrated = match &b.analysis {
+            Some(a) => log.calibrated(&b.recipe, a).unwrap_or_default(),
+            None => Vec::new(),
+        };
+        writeln!(out, "{}", balance_json(&file, &b, &calibrated))?;
     } else {
         writeln!(out, "{}", balance_text(&recipe, &b))?;
     }
@@ -176,11 +182,12 @@ pub fn run(args: &BalanceArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
         eprintln!("gelu: your own items could not be read from the batch log: {e:#}");
         OwnItems::default()
     });
+    let log = super::own::log_corrections(db);
     let stdout = std::io::stdout();
     let mut out = stdout.lock();
     let mut missed = 0usize;
     for path in &args.files {
-        match balance_file(path, args, &own, &mut out)? {
+        match balance_file(path, args, &own, &log, &mut out)? {
             Outcome::Balanced => {}
             Outcome::Infeasible | Outcome::Failed => missed += 1,
         }

@@ -6,11 +6,12 @@
 
 use std::path::Path;
 
-use crate::analysis::Options;
+use crate::analysis::{Analysis, Options};
 use crate::catalog::Catalog;
-use crate::model::OwnItems;
+use crate::measure::{CalibratedFigure, Correction, calibrate_recipe};
 use crate::model::TempUnit;
 use crate::model::units::parse_freezing_temp;
+use crate::model::{OwnItems, Recipe};
 use crate::recipe_file::own_items_in;
 use crate::store::{CABINET_TEMP_KEY, FREEZER_TEMP_KEY, Store, open};
 
@@ -43,6 +44,66 @@ fn read_only_log(db: Option<&Path>) -> anyhow::Result<Option<Store>> {
         return Ok(None);
     }
     Ok(Store::open_read_only(&path)?)
+}
+
+/// What the batch log adds to a prediction on the command line: the
+/// corrections in force and the draw share they were fitted with.
+#[derive(Debug, Clone)]
+pub struct LogCorrections {
+    /// The corrections turned on.
+    pub corrections: Vec<Correction>,
+    /// Share of the water frozen at draw (0..1).
+    pub draw_frozen_fraction: f64,
+}
+
+impl Default for LogCorrections {
+    fn default() -> Self {
+        LogCorrections {
+            corrections: Vec::new(),
+            draw_frozen_fraction: crate::measure::DEFAULT_DRAW_FROZEN_FRACTION,
+        }
+    }
+}
+
+impl LogCorrections {
+    /// The predictions of `recipe` (analysed as `a`) that a correction in force
+    /// applies to, corrected; none without corrections.
+    pub fn calibrated(
+        &self,
+        recipe: &Recipe,
+        a: &Analysis,
+    ) -> Result<Vec<CalibratedFigure>, String> {
+        calibrate_recipe(
+            recipe,
+            Catalog::builtin(),
+            self.draw_frozen_fraction,
+            a.serving_temp_c,
+            &self.corrections,
+        )
+        .map_err(|e| e.to_string())
+    }
+}
+
+/// The corrections in force in the log at `db` (else the default log,
+/// read-only); none without a log, or with a notice on stderr when it cannot
+/// be read (the plain predictions stand).
+pub fn log_corrections(db: Option<&Path>) -> LogCorrections {
+    let read = || -> anyhow::Result<LogCorrections> {
+        Ok(match read_only_log(db)? {
+            Some(store) => {
+                let s = store.log_setting()?;
+                LogCorrections {
+                    corrections: s.corrections,
+                    draw_frozen_fraction: s.draw_frozen_fraction,
+                }
+            }
+            None => LogCorrections::default(),
+        })
+    };
+    read().unwrap_or_else(|e| {
+        eprintln!("gelu: the corrections in force could not be read from the batch log: {e:#}");
+        LogCorrections::default()
+    })
 }
 
 /// The cabinet and freezer temperatures flags (`--cabinet`, `--freezer`).

@@ -6,6 +6,7 @@ use std::io::{BufWriter, Write};
 use std::path::{Path, PathBuf};
 use std::process::ExitCode;
 
+use super::own::LogCorrections;
 use crate::analysis::{Options, analyze};
 use crate::catalog::Catalog;
 use crate::model::TempUnit;
@@ -13,8 +14,8 @@ use crate::model::units::{parse_freezing_temp, parse_share};
 use crate::model::{OwnItems, Recipe};
 use crate::recipe_file::{parse_recipe, read_recipe_using};
 use crate::report::inert::inert;
-use crate::report::json::write_analysis_json;
-use crate::report::text::report_text;
+use crate::report::json::write_report_json;
+use crate::report::text::{calibrated_text, report_text};
 use crate::samples::SAMPLE_RECIPES;
 
 /// Arguments of `gelu report`.
@@ -49,16 +50,27 @@ fn emit(
     out: &mut impl Write,
     recipe: &Recipe,
     options: &Options,
+    log: &LogCorrections,
     json: bool,
     unit: TempUnit,
 ) -> Result<(), String> {
     let a = analyze(recipe, Catalog::builtin(), options).map_err(|e| e.to_string())?;
+    let calibrated = log.calibrated(recipe, &a)?;
     if json {
-        write_analysis_json(&a, &mut *out)
+        write_report_json(&a, &calibrated, &mut *out)
             .map_err(|e| e.to_string())
             .and_then(|_| writeln!(out).map_err(|e| e.to_string()))
     } else {
-        writeln!(out, "{}", report_text(&a, unit)).map_err(|e| e.to_string())
+        let mut text = report_text(&a, unit);
+        let extra = calibrated_text(&calibrated, unit);
+        if !extra.is_empty() {
+            if !text.ends_with('\n') {
+                text.push('\n');
+            }
+            text.push('\n');
+            text.push_str(&extra);
+        }
+        writeln!(out, "{text}").map_err(|e| e.to_string())
     }
 }
 
@@ -67,12 +79,14 @@ fn report_file(
     path: &Path,
     own: &OwnItems,
     options: &Options,
+    log: &LogCorrections,
     json: bool,
     unit: TempUnit,
 ) -> Result<Vec<u8>, String> {
     let (recipe, _, _) = read_recipe_using(path, own).map_err(|e| e.to_string())?;
     let mut buf = Vec::with_capacity(if json { 6 << 10 } else { 4 << 10 });
-    emit(&mut buf, &recipe, options, json, unit).map_err(|e| format!("{}: {e}", path.display()))?;
+    emit(&mut buf, &recipe, options, log, json, unit)
+        .map_err(|e| format!("{}: {e}", path.display()))?;
     Ok(buf)
 }
 
@@ -85,6 +99,7 @@ fn report_round(
     files: &[PathBuf],
     own: &OwnItems,
     options: &Options,
+    log: &LogCorrections,
     json: bool,
     unit: TempUnit,
 ) -> Vec<Result<Vec<u8>, String>> {
@@ -99,7 +114,7 @@ fn report_round(
                 scope.spawn(move || {
                     chunk
                         .iter()
-                        .map(|p| report_file(p, own, options, json, unit))
+                        .map(|p| report_file(p, own, options, log, json, unit))
                         .collect::<Vec<_>>()
                 })
             })
@@ -135,11 +150,12 @@ pub fn run(args: &ReportArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
         temp_unit: unit,
         ..super::own::analysis_options(db, &args.temps)
     };
+    let log = super::own::log_corrections(db);
     let stdout = std::io::stdout();
     let mut out = BufWriter::new(stdout.lock());
     let mut failed = 0usize;
     for round in args.files.chunks(FILES_PER_ROUND) {
-        for outcome in report_round(round, &own, &options, args.json, unit) {
+        for outcome in report_round(round, &own, &options, &log, args.json, unit) {
             match outcome {
                 Ok(bytes) => out.write_all(&bytes)?,
                 Err(message) => {
@@ -171,6 +187,7 @@ pub fn run_samples() -> anyhow::Result<ExitCode> {
             &mut out,
             &recipe,
             &Options::default(),
+            &LogCorrections::default(),
             false,
             TempUnit::Celsius,
         )

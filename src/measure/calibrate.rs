@@ -18,7 +18,8 @@
 use serde::{Deserialize, Serialize};
 
 use super::compare::{CompareError, Comparison};
-use super::kinds::{defaults, difference_unit};
+use super::kinds::{PREDICTED_KINDS, defaults, difference_unit};
+use super::predict::Predictions;
 
 /// What a correction applies to.
 #[derive(Debug, Clone, PartialEq, Eq, Serialize, Deserialize)]
@@ -91,6 +92,91 @@ impl Correction {
             self.basis
         )
     }
+}
+
+/// The correction in force for `kind` of the recipe named `recipe`, else of
+/// its `style` (kebab-case): a recipe's own correction wins over its style's.
+pub fn correction_for<'a>(
+    corrections: &'a [Correction],
+    kind: &str,
+    recipe: &str,
+    style: Option<&str>,
+) -> Option<&'a Correction> {
+    let of = |scope: &Scope| {
+        corrections
+            .iter()
+            .find(|c| c.kind == kind && &c.scope == scope)
+    };
+    of(&Scope::Recipe(recipe.to_string()))
+        .or_else(|| style.and_then(|s| of(&Scope::Style(s.to_string()))))
+}
+
+/// A prediction of a recipe with the correction in force for it.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct CalibratedFigure {
+    /// The kind name of the batch log (`freezing-point-c`, ...).
+    pub kind: String,
+    /// The plain prediction (in the kind's unit).
+    pub predicted: f64,
+    /// The prediction with the correction applied (same unit).
+    pub value: f64,
+    /// Unit of the offset (K for temperatures).
+    pub unit: String,
+    /// Number of batches the correction rests on.
+    pub n: usize,
+    /// The correction's basis, e.g. "+0.12 K from 14 batches".
+    pub basis: String,
+}
+
+/// Every prediction of a recipe that a correction in force applies to, with
+/// the correction applied (the batch mass is a plan, never corrected).
+pub fn calibrated_figures(
+    predictions: &Predictions,
+    recipe: &str,
+    style: &str,
+    corrections: &[Correction],
+) -> Vec<CalibratedFigure> {
+    PREDICTED_KINDS
+        .iter()
+        .filter(|kind| **kind != "mass-g")
+        .filter_map(|kind| {
+            let predicted = predictions.for_kind(kind)?;
+            let c = correction_for(corrections, kind, recipe, Some(style))?;
+            Some(CalibratedFigure {
+                kind: kind.to_string(),
+                predicted,
+                value: c.apply(predicted),
+                unit: c.unit.clone(),
+                n: c.n,
+                basis: c.basis.clone(),
+            })
+        })
+        .collect()
+}
+
+/// The predictions of `recipe` that `corrections` in force apply to, corrected:
+/// predicted as the batch log predicts (draw temperature at
+/// `draw_frozen_fraction`), with the serving temperature the caller's analysis
+/// found (`serving_temp_c`, at the share it uses). Nothing is computed when no
+/// correction is in force.
+pub fn calibrate_recipe(
+    recipe: &crate::model::Recipe,
+    catalog: &crate::catalog::Catalog,
+    draw_frozen_fraction: f64,
+    serving_temp_c: Option<f64>,
+    corrections: &[Correction],
+) -> Result<Vec<CalibratedFigure>, crate::analysis::AnalysisError> {
+    if corrections.is_empty() {
+        return Ok(Vec::new());
+    }
+    let mut p = super::predict::predict(recipe, catalog, draw_frozen_fraction)?;
+    p.serving_temp_c = serving_temp_c;
+    Ok(calibrated_figures(
+        &p,
+        &recipe.name,
+        recipe.style.as_str(),
+        corrections,
+    ))
 }
 
 /// Why no correction can be fitted.
@@ -235,5 +321,41 @@ mod tests {
             fit_correction("abv-pct", Scope::Style("liqueur".into()), &[c(0.1)], bad),
             Err(CalibrationError::BadPrior { .. })
         ));
+    }
+
+    #[test]
+    fn a_recipes_own_correction_wins_over_its_styles_and_mass_is_never_corrected() {
+        let prior = CalibrationPrior {
+            prior_scale: 0.3,
+            batch_spread_floor: 0.1,
+        };
+        let fit = |scope: Scope, d: f64| {
+            fit_correction("abv-pct", scope, &[c(d)], prior).unwrap_or_else(|e| panic!("{e}"))
+        };
+        let style = fit(Scope::Style("liqueur".into()), 0.4);
+        let own = fit(Scope::Recipe("Gull Rock cassis".into()), -0.4);
+        let mut mass = style.clone();
+        mass.kind = "mass-g".into();
+        let corrections = [style.clone(), own.clone(), mass];
+        let p = Predictions {
+            freezing_point_c: Some(-9.0),
+            abv_pct: 20.0,
+            brix: None,
+            brix_refused: None,
+            draw_temp_c: None,
+            draw_frozen_fraction: 0.5,
+            serving_temp_c: None,
+            mass_g: 1000.0,
+        };
+        let mine = calibrated_figures(&p, "Gull Rock cassis", "liqueur", &corrections);
+        assert_eq!(mine.len(), 1, "{mine:?}");
+        assert_eq!(mine[0].kind, "abv-pct");
+        assert_eq!(mine[0].value, 20.0 + own.offset);
+        assert!(own.offset < 0.0);
+        let other = calibrated_figures(&p, "Another", "liqueur", &corrections);
+        assert_eq!(other.len(), 1, "{other:?}");
+        assert_eq!(other[0].value, 20.0 + style.offset);
+        assert_eq!(other[0].n, 1);
+        assert!(calibrated_figures(&p, "Another", "gelato", &corrections).is_empty());
     }
 }

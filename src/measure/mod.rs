@@ -55,7 +55,10 @@ mod predict;
 mod refraction_data;
 mod refractometer;
 
-pub use calibrate::{CalibrationError, CalibrationPrior, Correction, Scope, fit_correction};
+pub use calibrate::{
+    CalibratedFigure, CalibrationError, CalibrationPrior, Correction, Scope, calibrate_recipe,
+    calibrated_figures, correction_for, fit_correction,
+};
 pub use characterise::{
     COLDEST_C, Characterisation, CharacteriseError, DEFAULT_PRECISION_K, DilutionPoint, DryMatter,
     KF_WATER, NORRISH_K_MAX, PointFit, SUCROSE_EQUIVALENT_REFERENCE_G_PER_100G_WATER, SampleSpec,

@@ -11,7 +11,8 @@ use crate::balance::{Balance, Figure, Objective, Status};
 use crate::model::units::trim_number;
 use crate::model::{Amount, Recipe};
 
-use super::json::analysis_json;
+use super::json::report_json;
+use crate::measure::CalibratedFigure;
 
 /// An amount as the balance table shows it: to a tenth of a gram (or mL).
 fn amount_text(amount: Amount) -> String {
@@ -200,8 +201,9 @@ fn cost_lines(o: &mut String, before: &Recipe, b: &Balance) {
 /// targets [{name, low, high, value, met, binding, shadow_price, implied}],
 /// conflicts [{targets, relax}], report` (the `gelu report --json` object of
 /// the balanced recipe, with the frozen-share targets' temperatures as `at`),
-/// plus `file`.
-pub fn balance_json(file: &str, b: &Balance) -> Value {
+/// plus `file`. `calibrated` is what the corrections in force make of the
+/// balanced recipe's predictions, as `gelu report` shows them.
+pub fn balance_json(file: &str, b: &Balance, calibrated: &[CalibratedFigure]) -> Value {
     let mut object = match serde_json::to_value(b) {
         Ok(Value::Object(map)) => map,
         _ => Map::new(),
@@ -209,7 +211,9 @@ pub fn balance_json(file: &str, b: &Balance) -> Value {
     object.insert("file".into(), Value::from(file));
     object.insert(
         "report".into(),
-        b.analysis.as_ref().map_or(Value::Null, analysis_json),
+        b.analysis
+            .as_ref()
+            .map_or(Value::Null, |a| report_json(a, calibrated)),
     );
     Value::Object(object)
 }

@@ -223,6 +223,38 @@ pub fn write_analysis_json(a: &Analysis, out: &mut impl Write) -> std::io::Resul
     out.write_all(&analysis_json_bytes(a))
 }
 
+/// Writes what `gelu report --json` prints for one recipe: the analysis, and
+/// under `calibrated` the predictions that corrections in force in the batch log
+/// apply to (`kind, predicted, value, unit, basis`; an empty list when none do),
+/// as one compact JSON object (no newline). The plain figures stay as they are.
+pub fn write_report_json(
+    a: &Analysis,
+    calibrated: &[crate::measure::CalibratedFigure],
+    out: &mut impl Write,
+) -> std::io::Result<()> {
+    let mut bytes = analysis_json_bytes(a);
+    if bytes.pop() != Some(b'}') {
+        return out.write_all(b"{}");
+    }
+    bytes.extend_from_slice(b",\"calibrated\":");
+    serde_json::to_writer(&mut bytes, calibrated)?;
+    bytes.push(b'}');
+    out.write_all(&bytes)
+}
+
+/// What `gelu report --json` prints for one recipe, as a JSON value (see
+/// [`write_report_json`]).
+pub fn report_json(
+    a: &Analysis,
+    calibrated: &[crate::measure::CalibratedFigure],
+) -> serde_json::Value {
+    let mut bytes = Vec::with_capacity(6 << 10);
+    if write_report_json(a, calibrated, &mut bytes).is_err() {
+        return serde_json::Value::Null;
+    }
+    serde_json::from_slice(&bytes).unwrap_or(serde_json::Value::Null)
+}
+
 /// The analysis as a JSON value (for storing as a prediction).
 pub fn analysis_json(a: &Analysis) -> serde_json::Value {
     serde_json::from_slice(&analysis_json_bytes(a)).unwrap_or(serde_json::Value::Null)

@@ -156,3 +156,36 @@ pub fn report_text(a: &Analysis, unit: TempUnit) -> String {
     }
     o
 }
+
+/// The predictions that corrections in force apply to, as `gelu report` prints
+/// them under the analysis: each calibrated value beside the plain one, with
+/// its basis. Empty when there are none.
+pub fn calibrated_text(figures: &[crate::measure::CalibratedFigure], unit: TempUnit) -> String {
+    let mut o = String::new();
+    if figures.is_empty() {
+        return o;
+    }
+    let _ = writeln!(
+        o,
+        "Calibrated from the batch log (corrections in force; the plain predictions above stay as they are):"
+    );
+    for f in figures {
+        let kind_unit = crate::batch::MeasurementKind::parse(&f.kind).map_or("", |k| k.unit());
+        let shown = |v: f64| {
+            if kind_unit == "°C" {
+                format!("{:.2} {}", unit.from_c(v), unit.symbol())
+            } else {
+                format!("{v:.2} {kind_unit}")
+            }
+        };
+        let _ = writeln!(
+            o,
+            "  {:<18} {} (plain {}; calibrated: {})",
+            f.kind,
+            shown(f.value),
+            shown(f.predicted),
+            inert(&f.basis)
+        );
+    }
+    o
+}

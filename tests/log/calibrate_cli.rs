@@ -236,3 +236,46 @@ fn the_schema_holds_the_versions_append_only() {
         assert!(err.contains("never"), "{sql}: {err}");
     }
 }
+
+#[test]
+fn a_report_shows_the_corrections_in_force_beside_the_plain_prediction() {
+    let (_dir, db) = new_db();
+    vanilla_batches(&db, 12, 0.15);
+    // Nothing in force: the report says so with an empty list.
+    let plain = json(&db, &["report", VANILLA, "--json"]);
+    assert_eq!(plain["calibrated"], serde_json::json!([]), "{plain}");
+    run(
+        &db,
+        &[&FIT[..], &["--turn-on", "--by", "Head cook"]].concat(),
+        0,
+    );
+    let fitted: Value = json(&db, &[&FIT[..], &["--json"]].concat());
+    let offset = fitted["in_force"]["offset"]
+        .as_f64()
+        .or_else(|| fitted["correction"]["offset"].as_f64())
+        .unwrap();
+    let report = json(&db, &["report", VANILLA, "--json"]);
+    // The plain prediction is untouched; the calibrated one is beside it.
+    assert_eq!(report["freezing_point_c"], plain["freezing_point_c"]);
+    let predicted = report["freezing_point_c"].as_f64().unwrap();
+    let calibrated = report["calibrated"].as_array().unwrap();
+    assert_eq!(calibrated.len(), 1, "{report}");
+    let fp = &calibrated[0];
+    assert_eq!(fp["kind"], "freezing-point-c");
+    // JSON rounds the freezing point to 0.001 K.
+    assert!(
+        (fp["predicted"].as_f64().unwrap() - predicted).abs() < 1e-3,
+        "{fp}"
+    );
+    assert!(
+        (fp["value"].as_f64().unwrap() - (predicted + offset)).abs() < 2e-3,
+        "{fp} {offset}"
+    );
+    assert!(
+        fp["basis"].as_str().unwrap().contains("from 12 batches"),
+        "{fp}"
+    );
+    let text = run(&db, &["report", VANILLA], 0);
+    assert!(text.contains("calibrated"), "{text}");
+    assert!(text.contains("from 12 batches"), "{text}");
+}

@@ -302,3 +302,44 @@ fn the_draw_share_is_a_setting() {
         matches!(&effects[..], [Effect::SaveSettings(x)] if (x.draw_frozen_fraction - 0.45).abs() < 1e-12)
     );
 }
+
+#[test]
+fn a_correction_in_force_shows_on_the_recipe_screen_beside_the_plain_prediction() {
+    let mut s = loaded_state();
+    let plain_fp = match &s.recipe.analysis {
+        Ok(a) => a.freezing_point_c.unwrap_or(f64::NAN),
+        Err(e) => panic!("{e}"),
+    };
+    assert!(s.recipe.calibrated.is_empty());
+    let scope = Scope::Style("gelato".into());
+    let Some(prior) = CalibrationPrior::for_kind("freezing-point-c") else {
+        panic!("no prior");
+    };
+    let correction = match fit_correction("freezing-point-c", scope, &pairs(), prior) {
+        Ok(c) => c,
+        Err(e) => panic!("{e}"),
+    };
+    let mut settings = s.settings.clone();
+    settings.corrections = vec![correction.clone()];
+    update(&mut s, Action::SettingsLoaded(settings));
+    let [fp] = &s.recipe.calibrated[..] else {
+        panic!("{:?}", s.recipe.calibrated);
+    };
+    assert_eq!(fp.kind, "freezing-point-c");
+    assert!((fp.predicted - plain_fp).abs() < 1e-12);
+    assert!((fp.value - (plain_fp + correction.offset)).abs() < 1e-12);
+    // The plain prediction is untouched; the calibrated one is marked, with its basis.
+    assert_eq!(
+        s.recipe
+            .analysis
+            .as_ref()
+            .ok()
+            .and_then(|a| a.freezing_point_c),
+        Some(plain_fp)
+    );
+    let screen = crate::common::draw(&s, 120, 40);
+    let shown = format!("{:.1} °C", plain_fp + correction.offset);
+    assert!(screen.contains("calibrated"), "{screen}");
+    assert!(screen.contains(&shown), "{shown}\n{screen}");
+    assert!(screen.contains("12 batches"), "{screen}");
+}

@@ -98,6 +98,9 @@ pub fn load_settings(store: &Store) -> Settings {
     if let Ok(share) = store.draw_frozen_fraction() {
         s.draw_frozen_fraction = share;
     }
+    if let Ok(corrections) = store.corrections_in_force() {
+        s.corrections = corrections;
+    }
     if let Some(v) = get(SYNC_URL_KEY) {
         s.sync_url = v;
     }

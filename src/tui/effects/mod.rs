@@ -224,19 +224,25 @@ impl Services {
             ))],
             Effect::TurnOnCorrection { correction, by } => {
                 let version = s.turn_on_correction(&correction, &by)?;
-                vec![Action::CorrectionChanged(format!(
-                    "The correction of {} for {} is in force as version {version}: {}. Calibrated figures are marked as such.",
-                    correction.kind,
-                    scope_words(&correction.scope),
-                    correction.basis
-                ))]
+                vec![
+                    Action::SettingsLoaded(load_settings(s)),
+                    Action::CorrectionChanged(format!(
+                        "The correction of {} for {} is in force as version {version}: {}. Calibrated figures are marked as such.",
+                        correction.kind,
+                        scope_words(&correction.scope),
+                        correction.basis
+                    )),
+                ]
             }
             Effect::TurnOffCorrection { kind, scope, by } => {
                 s.turn_off_correction(&kind, &scope, &by)?;
-                vec![Action::CorrectionChanged(format!(
-                    "The correction of {kind} for {} is taken out; its versions stay in the log.",
-                    scope_words(&scope)
-                ))]
+                vec![
+                    Action::SettingsLoaded(load_settings(s)),
+                    Action::CorrectionChanged(format!(
+                        "The correction of {kind} for {} is taken out; its versions stay in the log.",
+                        scope_words(&scope)
+                    )),
+                ]
             }
             Effect::AddMeasurement {
                 code,

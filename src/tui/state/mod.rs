@@ -92,6 +92,9 @@ pub struct Settings {
     pub sync_url: String,
     /// Prices per kg by ingredient id, for least cost (any currency).
     pub prices_per_kg: BTreeMap<String, f64>,
+    /// The calibrations in force in the log (read with the settings, changed
+    /// only by turning one on or off in the compare view).
+    pub corrections: Vec<crate::measure::Correction>,
 }
 
 impl Default for Settings {
@@ -107,6 +110,7 @@ impl Default for Settings {
             site_code: String::new(),
             sync_url: String::new(),
             prices_per_kg: BTreeMap::new(),
+            corrections: Vec::new(),
         }
     }
 }
@@ -152,6 +156,9 @@ pub struct RecipeState {
     pub redo: Vec<Recipe>,
     /// The analysis of `recipe`, or why there is none.
     pub analysis: Result<Analysis, String>,
+    /// The predictions of `recipe` that a calibration in force applies to,
+    /// corrected (the analysis keeps the plain ones).
+    pub calibrated: Vec<crate::measure::CalibratedFigure>,
     /// The balance panel, when it is open.
     pub balance: Option<BalancePanel>,
     /// What to do once the save under way goes through ("save first" answered to
@@ -360,6 +367,7 @@ impl State {
                 undo: Vec::new(),
                 redo: Vec::new(),
                 analysis: Err(String::new()),
+                calibrated: Vec::new(),
                 balance: None,
                 after_save: None,
             },
@@ -430,6 +438,22 @@ impl State {
             analysis::analyze(&self.recipe.recipe, Catalog::builtin(), &options)
                 .map_err(|e| e.to_string())
         };
+        self.recipe.calibrated = self.calibrated();
+    }
+
+    /// The recipe's predictions that the corrections in force apply to.
+    fn calibrated(&self) -> Vec<crate::measure::CalibratedFigure> {
+        let Ok(a) = &self.recipe.analysis else {
+            return Vec::new();
+        };
+        crate::measure::calibrate_recipe(
+            &self.recipe.recipe,
+            Catalog::builtin(),
+            self.settings.draw_frozen_fraction,
+            a.serving_temp_c,
+            &self.settings.corrections,
+        )
+        .unwrap_or_default()
     }
 
     /// Rebuilds the catalog from the built-in one, the own library and the recipe's own items.

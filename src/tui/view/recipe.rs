@@ -145,14 +145,16 @@ fn dessert_figures<'a>(state: &State, theme: Theme, a: &Analysis, width: u16) ->
     let t = state.settings.temp_unit;
     let c = &a.composition;
     let pct = |x: f64| format!("{x:.1} %");
-    vec![
-        figure(
+    let calibrated = |kind: &str| calibrated_rows(state, theme, kind, width);
+    [
+        vec![figure(
             theme,
             "Freezing point",
             t.format_opt(a.freezing_point_c),
             width,
-        ),
-        figure(
+        )],
+        calibrated("freezing-point-c"),
+        vec![figure(
             theme,
             &format!(
                 "Serve at ({:.0} % frozen)",
@@ -160,59 +162,63 @@ fn dessert_figures<'a>(state: &State, theme: Theme, a: &Analysis, width: u16) ->
             ),
             t.format_opt(a.serving_temp_c),
             width,
-        ),
-        figure(
-            theme,
-            &format!("Frozen, cabinet {}", t.format(a.cabinet.temp_c)),
-            pct(100.0 * a.cabinet.frozen_fraction),
-            width,
-        ),
-        figure(
-            theme,
-            &format!("Frozen, freezer {}", t.format(a.freezer.temp_c)),
-            pct(100.0 * a.freezer.frozen_fraction),
-            width,
-        ),
-        figure(
-            theme,
-            "Sweetness (sucrose = 100)",
-            format!("{:.1}", a.sweetness),
-            width,
-        ),
-        figure(theme, "Total solids", pct(c.total_solids_pct), width),
-        figure(theme, "Fat", pct(c.fat_pct), width),
-        figure(theme, "MSNF", pct(c.msnf_pct), width),
-        figure(theme, "Sugars", pct(c.sugars_pct), width),
-        figure(theme, "ABV", format!("{:.1} % vol", a.abv_pct), width),
-        figure(
-            theme,
-            "Dilute-law freezing point",
-            t.format_opt(a.dilute_law_freezing_point_c),
-            width,
-        ),
-        figure(
-            theme,
-            "Classic-method freezing point",
-            if a.classic_applies {
-                t.format_opt(a.classic_freezing_point_c)
-            } else {
-                "n/a (see notes)".into()
-            },
-            width,
-        ),
-        figure(theme, "Water", pct(c.water_pct), width),
-        figure(theme, "Protein", pct(c.protein_pct), width),
-        figure(
-            theme,
-            "Mass, volume",
-            format!(
-                "{}, {}",
-                format_mass(a.mass_g, state.settings.mass_unit),
-                format_volume(a.volume_ml)
+        )],
+        calibrated("serving-temp-c"),
+        vec![
+            figure(
+                theme,
+                &format!("Frozen, cabinet {}", t.format(a.cabinet.temp_c)),
+                pct(100.0 * a.cabinet.frozen_fraction),
+                width,
             ),
-            width,
-        ),
+            figure(
+                theme,
+                &format!("Frozen, freezer {}", t.format(a.freezer.temp_c)),
+                pct(100.0 * a.freezer.frozen_fraction),
+                width,
+            ),
+            figure(
+                theme,
+                "Sweetness (sucrose = 100)",
+                format!("{:.1}", a.sweetness),
+                width,
+            ),
+            figure(theme, "Total solids", pct(c.total_solids_pct), width),
+            figure(theme, "Fat", pct(c.fat_pct), width),
+            figure(theme, "MSNF", pct(c.msnf_pct), width),
+            figure(theme, "Sugars", pct(c.sugars_pct), width),
+            figure(theme, "ABV", format!("{:.1} % vol", a.abv_pct), width),
+            figure(
+                theme,
+                "Dilute-law freezing point",
+                t.format_opt(a.dilute_law_freezing_point_c),
+                width,
+            ),
+            figure(
+                theme,
+                "Classic-method freezing point",
+                if a.classic_applies {
+                    t.format_opt(a.classic_freezing_point_c)
+                } else {
+                    "n/a (see notes)".into()
+                },
+                width,
+            ),
+            figure(theme, "Water", pct(c.water_pct), width),
+            figure(theme, "Protein", pct(c.protein_pct), width),
+            figure(
+                theme,
+                "Mass, volume",
+                format!(
+                    "{}, {}",
+                    format_mass(a.mass_g, state.settings.mass_unit),
+                    format_volume(a.volume_ml)
+                ),
+                width,
+            ),
+        ],
     ]
+    .concat()
 }
 
 /// A liqueur's or spirit's key figures: what a distiller and a label law ask
@@ -222,63 +228,106 @@ fn drink_figures<'a>(state: &State, theme: Theme, a: &Analysis, width: u16) -> V
     let t = state.settings.temp_unit;
     let c = &a.composition;
     let pct = |x: f64| format!("{x:.1} %");
-    vec![
-        figure(theme, "Volume at 20 °C", format_volume(a.volume_ml), width),
-        figure(
-            theme,
-            "ABV (20 °C)",
-            format!("{:.2} % vol", a.abv_pct),
-            width,
-        ),
-        figure(theme, "US proof", format!("{:.1}", 2.0 * a.abv_pct), width),
-        figure(theme, "Sugar", format!("{:.0} g/L", a.sugar_g_per_l), width),
-        figure(
-            theme,
-            "Mass",
-            format_mass(a.mass_g, state.settings.mass_unit),
-            width,
-        ),
-        figure(
-            theme,
-            &format!("In the freezer, {}", t.format(a.freezer.temp_c)),
-            a.freezer_behaviour.words().to_string(),
-            width,
-        ),
-        figure(
-            theme,
-            "Its water as ice there",
-            pct(100.0 * a.freezer.frozen_fraction),
-            width,
-        ),
-        figure(
-            theme,
-            "Freezing point",
-            t.format_opt(a.freezing_point_c),
-            width,
-        ),
-        figure(
-            theme,
-            "Sweetness (sucrose = 100)",
-            format!("{:.1}", a.sweetness),
-            width,
-        ),
-        figure(theme, "Ethanol (mass)", pct(c.ethanol_pct), width),
-        figure(theme, "Total solids", pct(c.total_solids_pct), width),
-        figure(theme, "Fat", pct(c.fat_pct), width),
-        figure(
-            theme,
-            "Dilute-law freezing point",
-            t.format_opt(a.dilute_law_freezing_point_c),
-            width,
-        ),
-        figure(
-            theme,
-            "Classic-method estimate",
-            "n/a for drinks".into(),
-            width,
-        ),
-        figure(theme, "Water", pct(c.water_pct), width),
+    let calibrated = |kind: &str| calibrated_rows(state, theme, kind, width);
+    [
+        vec![
+            figure(theme, "Volume at 20 °C", format_volume(a.volume_ml), width),
+            figure(
+                theme,
+                "ABV (20 °C)",
+                format!("{:.2} % vol", a.abv_pct),
+                width,
+            ),
+        ],
+        calibrated("abv-pct"),
+        vec![
+            figure(theme, "US proof", format!("{:.1}", 2.0 * a.abv_pct), width),
+            figure(theme, "Sugar", format!("{:.0} g/L", a.sugar_g_per_l), width),
+            figure(
+                theme,
+                "Mass",
+                format_mass(a.mass_g, state.settings.mass_unit),
+                width,
+            ),
+            figure(
+                theme,
+                &format!("In the freezer, {}", t.format(a.freezer.temp_c)),
+                a.freezer_behaviour.words().to_string(),
+                width,
+            ),
+            figure(
+                theme,
+                "Its water as ice there",
+                pct(100.0 * a.freezer.frozen_fraction),
+                width,
+            ),
+            figure(
+                theme,
+                "Freezing point",
+                t.format_opt(a.freezing_point_c),
+                width,
+            ),
+        ],
+        calibrated("freezing-point-c"),
+        vec![
+            figure(
+                theme,
+                "Sweetness (sucrose = 100)",
+                format!("{:.1}", a.sweetness),
+                width,
+            ),
+            figure(theme, "Ethanol (mass)", pct(c.ethanol_pct), width),
+            figure(theme, "Total solids", pct(c.total_solids_pct), width),
+            figure(theme, "Fat", pct(c.fat_pct), width),
+            figure(
+                theme,
+                "Dilute-law freezing point",
+                t.format_opt(a.dilute_law_freezing_point_c),
+                width,
+            ),
+            figure(
+                theme,
+                "Classic-method estimate",
+                "n/a for drinks".into(),
+                width,
+            ),
+            figure(theme, "Water", pct(c.water_pct), width),
+        ],
     ]
+    .concat()
+}
+
+/// The row of a calibrated figure of `kind` under its plain one, when a
+/// correction in force applies: marked as calibrated, with its basis (the
+/// offset too where the panel is wide enough).
+fn calibrated_rows<'a>(state: &State, theme: Theme, kind: &str, width: u16) -> Vec<Line<'a>> {
+    let t = state.settings.temp_unit;
+    state
+        .recipe
+        .calibrated
+        .iter()
+        .filter(|f| f.kind == kind)
+        .map(|f| {
+            let value = if f.unit == "K" {
+                t.format(f.value)
+            } else {
+                format!("{:.2} {}", f.value, f.unit)
+            };
+            let batches = if f.n == 1 { "batch" } else { "batches" };
+            let wide = format!(
+                "  calibrated {:+.2} {}, {} {batches}",
+                f.value - f.predicted,
+                f.unit,
+                f.n
+            );
+            let label = if wide.chars().count() + value.chars().count() + 2 <= width as usize {
+                wide
+            } else {
+                format!("  calibrated, {} {batches}", f.n)
+            };
+            figure(theme, &label, value, width)
+        })
+        .collect()
 }
 
 /// The warnings and cautions as (mark, style, text): problems first, then the
