@@ -198,6 +198,13 @@ impl Target {
             }
         }
         config.connect_timeout(std::time::Duration::from_secs(10));
+        // A hub that vanishes mid-sync (a cable pulled, a router down) is noticed
+        // within about a minute instead of the system's two hours: the sync fails,
+        // its transaction rolls back, and the next one takes up where it was.
+        config.keepalives_idle(std::time::Duration::from_secs(30));
+        config.keepalives_interval(std::time::Duration::from_secs(10));
+        config.keepalives_retries(3);
+        config.tcp_user_timeout(std::time::Duration::from_secs(60));
         config.application_name("gelu sync");
         let root_cert = root.map(PathBuf::from);
         let shown = shown(&config);
