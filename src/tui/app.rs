@@ -28,7 +28,11 @@ pub fn run(launch: &Launch) -> anyhow::Result<()> {
     let mut queue: VecDeque<Action> = startup.into();
     let outcome = (|| -> anyhow::Result<()> {
         loop {
-            if drain(&mut state, &mut services, &mut queue) {
+            let mut show_busy = |state: &State| {
+                // Best effort: a frame that cannot be drawn now is drawn after.
+                let _ = term.draw(|frame| view(state, frame));
+            };
+            if drain_showing(&mut state, &mut services, &mut queue, &mut show_busy) {
                 return Ok(());
             }
             term.draw(|frame| view(&state, frame))?;
@@ -46,12 +50,32 @@ pub fn run(launch: &Launch) -> anyhow::Result<()> {
 
 /// Updates with every queued action and performs the effects; true to quit.
 pub fn drain(state: &mut State, services: &mut Services, queue: &mut VecDeque<Action>) -> bool {
+    drain_showing(state, services, queue, &mut |_| {})
+}
+
+/// As [`drain`], first telling the user and calling `show` (to draw a frame)
+/// before each slow effect.
+pub fn drain_showing(
+    state: &mut State,
+    services: &mut Services,
+    queue: &mut VecDeque<Action>,
+    show: &mut dyn FnMut(&State),
+) -> bool {
     while let Some(action) = queue.pop_front() {
         for effect in update(state, action) {
             if effect == Effect::Quit {
                 return true;
             }
+            let busy = effect.busy_words();
+            if let Some(words) = busy {
+                state.tell(words);
+                show(state);
+            }
             queue.extend(services.perform(effect));
+            if busy.is_some_and(|words| state.message.as_ref().is_some_and(|m| m.text == words)) {
+                // Done: what it brought says the rest.
+                state.message = None;
+            }
         }
     }
     false

@@ -723,3 +723,23 @@ fn the_basics_a_maker_reaches_for_new_copy_make_again_export() {
     assert!(s.recipe.recipe.lines.is_empty());
     assert!(matches!(s.recipe.source, RecipeSource::New));
 }
+
+#[test]
+fn a_slow_effect_is_announced_on_screen_before_it_runs_and_the_words_go_after() {
+    let dir = tempdir();
+    let (mut s, mut services) = open(&dir.path().join("log.db"), None);
+    run(&mut s, &mut services, Command::ShowBatches);
+    cmd(&mut s, Command::ExportBatches);
+    cmd(&mut s, Command::ClearField);
+    type_text(&mut s, &dir.path().join("all.csv").display().to_string());
+    let mut shown: Vec<String> = Vec::new();
+    let mut queue = VecDeque::from([Action::Command(Command::Confirm)]);
+    let quit = gelu::tui::app::drain_showing(&mut s, &mut services, &mut queue, &mut |st| {
+        shown.push(st.message.as_ref().map(|m| m.text.clone()).unwrap_or_default());
+    });
+    assert!(!quit);
+    assert_eq!(shown.len(), 1, "one frame before the export: {shown:?}");
+    assert!(shown[0].contains("Exporting"), "{shown:?}");
+    let after = s.message.as_ref().map(|m| m.text.clone()).unwrap_or_default();
+    assert!(after.contains("exported"), "{after}");
+}
