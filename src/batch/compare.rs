@@ -193,6 +193,15 @@ pub fn style(batch: &Batch) -> Option<Style> {
         .or_else(|| recipe_of(batch).ok().map(|r| r.style))
 }
 
+/// A liqueur's or spirit's batch volume at 20 °C (mL), as its prediction
+/// recorded it; `None` for other styles (sized by mass) or when not recorded.
+pub fn drink_volume_ml(batch: &Batch) -> Option<f64> {
+    if !style(batch).is_some_and(Style::is_drink) {
+        return None;
+    }
+    batch.prediction.get("volume_ml").and_then(Value::as_f64)
+}
+
 fn recipe_of(batch: &Batch) -> Result<crate::model::Recipe, String> {
     let label = format!("{} version {}", batch.recipe.recipe, batch.recipe.version);
     parse_recipe(Path::new(&label), &batch.recipe.text).map_err(|e| e.to_string())
@@ -222,6 +231,13 @@ fn prediction(
     let Some(key) = kind.prediction_key() else {
         return (None, PredictedFrom::Recorded, None);
     };
+    if kind == MeasurementKind::ServingTempC && style(batch).is_some_and(Style::is_drink) {
+        return (
+            None,
+            PredictedFrom::Recorded,
+            Some("a liqueur or spirit is poured, not served from a cabinet".into()),
+        );
+    }
     if let Some(recorded) = batch.prediction.get(key) {
         let why = match kind {
             MeasurementKind::Brix => batch.prediction.get("brix_refused").and_then(Value::as_str),

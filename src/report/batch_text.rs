@@ -4,6 +4,8 @@
 //! batch for a list. Text from the record is shown inert. (JSON and CSV forms are
 //! the batch domain's, in [`crate::batch`].)
 
+use crate::batch::compare::drink_volume_ml;
+use crate::model::units::format_volume;
 use std::fmt::Write as _;
 
 use super::inert::inert;
@@ -78,7 +80,14 @@ pub fn batch_text(b: &Batch, setting: &Setting<'_>) -> String {
         minute_text(&b.made_at),
         inert(&b.operator)
     ));
-    line(format!("size     {} g", grams(b.size_g)));
+    line(match drink_volume_ml(b) {
+        Some(ml) => format!(
+            "size     {} g ({} at 20 °C)",
+            grams(b.size_g),
+            format_volume(ml)
+        ),
+        None => format!("size     {} g", grams(b.size_g)),
+    });
     if let (Some(at), Some(by)) = (&b.finalized_at, &b.finalized_by) {
         line(format!("final    {} by {}", minute_text(at), inert(by)));
     }

@@ -374,3 +374,28 @@ fn the_draw_share_is_a_setting_of_the_log() {
     );
     run(&db, &["batch", "draw-share", "120 %"], 2);
 }
+
+#[test]
+fn a_drink_has_no_serving_temperature_to_compare_but_keeps_the_analysis_key() {
+    // A liqueur is poured, not scooped: no serving temperature is set against a
+    // reading (the analysis keeps its key, a public contract).
+    let (_dir, db) = new_db();
+    let l = json(&db, &["batch", "new", LIQUEUR, "--size", "2L", "--json"]);
+    assert!(l["prediction"]["serving_temp_c"].is_number());
+    let code = l["code"].as_str().unwrap().to_string();
+    let show = json(&db, &["batch", "show", &code, "--json"]);
+    let serving = compared(&show, "serving-temp-c");
+    assert!(serving["predicted"].is_null(), "{serving}");
+    assert!(
+        serving["no_prediction"]
+            .as_str()
+            .is_some_and(|r| r.contains("not served")),
+        "{serving}"
+    );
+    // The freezing point and ABV are still compared.
+    assert!(compared(&show, "freezing-point-c")["predicted"].is_number());
+    assert!(compared(&show, "abv-pct")["predicted"].is_number());
+    // Its size reads in litres too, as it was asked for.
+    let text = run(&db, &["batch", "show", &code], 0);
+    assert!(text.contains("(2 L at 20 °C)"), "{text}");
+}

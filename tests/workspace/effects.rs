@@ -735,11 +735,20 @@ fn a_slow_effect_is_announced_on_screen_before_it_runs_and_the_words_go_after() 
     let mut shown: Vec<String> = Vec::new();
     let mut queue = VecDeque::from([Action::Command(Command::Confirm)]);
     let quit = gelu::tui::app::drain_showing(&mut s, &mut services, &mut queue, &mut |st| {
-        shown.push(st.message.as_ref().map(|m| m.text.clone()).unwrap_or_default());
+        shown.push(
+            st.message
+                .as_ref()
+                .map(|m| m.text.clone())
+                .unwrap_or_default(),
+        );
     });
     assert!(!quit);
     assert_eq!(shown.len(), 1, "one frame before the export: {shown:?}");
     assert!(shown[0].contains("Exporting"), "{shown:?}");
-    let after = s.message.as_ref().map(|m| m.text.clone()).unwrap_or_default();
+    let after = s
+        .message
+        .as_ref()
+        .map(|m| m.text.clone())
+        .unwrap_or_default();
     assert!(after.contains("exported"), "{after}");
 }

@@ -152,6 +152,7 @@ fn a_cryoscope_reading_in_hortvet_is_accepted() {
         &mut s,
         Action::BatchDetail(Box::new(BatchDetailView {
             row: row("B-20261201-0001"),
+            volume_ml: None,
             lines: Vec::new(),
             comparisons: Vec::new(),
             measurements: Vec::new(),

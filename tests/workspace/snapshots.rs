@@ -64,6 +64,7 @@ fn with_detail() -> State {
         &mut s,
         Action::BatchDetail(Box::new(BatchDetailView {
             row: row("B-20261201-HBR-0002", "2026-12-01 09:05", true),
+            volume_ml: None,
             lines: vec![
                 ("whole-milk".into(), 3720.0, "QM-0412".into()),
                 ("heavy-cream".into(), 960.0, "QM-0413".into()),

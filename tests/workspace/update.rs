@@ -559,6 +559,7 @@ fn open_detail(s: &mut gelu::tui::State, finalized: bool) {
         s,
         Action::BatchDetail(Box::new(BatchDetailView {
             row: row("B-20261201-0001", finalized),
+            volume_ml: None,
             lines: Vec::new(),
             comparisons: Vec::new(),
             measurements: Vec::new(),

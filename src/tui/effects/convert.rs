@@ -254,6 +254,7 @@ pub fn detail(b: &Batch, setting: &Setting<'_>) -> BatchDetailView {
             finalized: b.status != crate::batch::Status::Draft,
             cursor: None,
         },
+        volume_ml: crate::batch::compare::drink_volume_ml(b),
         lines: b
             .lines
             .iter()

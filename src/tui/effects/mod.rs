@@ -111,11 +111,7 @@ impl Services {
                     &recipe,
                     crate::recipe_file::Expect::Absent,
                 )?;
-                vec![Action::Info(format!(
-                    "A copy of {} is in {} (the recipe in the editor is unchanged).",
-                    recipe.name,
-                    path.display()
-                ))]
+                vec![Action::Info(format!("A copy is in {}.", path.display()))]
             }
             Effect::LoadBatchRecipe(code) => vec![self.load_batch_recipe(&code)?],
             Effect::ExportBatches { query, path } => {

@@ -408,6 +408,8 @@ pub fn refresh_picker(state: &State, picker: &mut Picker) {
                         label: style.as_str().to_string(),
                         detail: if style.is_drink() {
                             "liqueurs and spirits".into()
+                        } else if style == Style::Other {
+                            "anything else".into()
                         } else {
                             "frozen desserts".into()
                         },

@@ -88,6 +88,8 @@ pub struct TrailRow {
 pub struct BatchDetailView {
     /// The row.
     pub row: BatchRow,
+    /// A liqueur's or spirit's volume at 20 °C (mL); `None` for desserts.
+    pub volume_ml: Option<f64>,
     /// Lines: ingredient, planned mass (g), lot.
     pub lines: Vec<(String, f64, String)>,
     /// Predicted against measured.

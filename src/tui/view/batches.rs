@@ -2,6 +2,7 @@
 //! drawn, so a million-row log draws as fast as a short one), and one batch's
 //! detail with predicted against measured figures.
 
+use crate::model::units::format_volume;
 use ratatui::Frame;
 use ratatui::layout::{Constraint, Layout, Rect};
 use ratatui::text::{Line, Span};
@@ -265,7 +266,14 @@ fn render_detail(state: &State, d: &BatchDetailView, theme: Theme, frame: &mut F
         )),
         Line::from(format!("Made       {}", d.row.made_at.replace('T', " "))),
         Line::from(format!("Operator   {}", d.row.operator)),
-        Line::from(format!("Size       {}", format_mass(d.row.size_g, unit))),
+        Line::from(match d.volume_ml {
+            Some(ml) => format!(
+                "Size       {} ({})",
+                format_volume(ml),
+                format_mass(d.row.size_g, unit)
+            ),
+            None => format!("Size       {}", format_mass(d.row.size_g, unit)),
+        }),
         Line::from(match d.row.status.as_str() {
             "draft" => "State      draft (measure, note, then finalise)".to_string(),
             status => format!("State      {status} (corrections are amendments)"),
