@@ -689,6 +689,13 @@ fn the_basics_a_maker_reaches_for_new_copy_make_again_export() {
         s.recipe.source
     );
     assert_eq!(s.recipe.recipe.name, detail.row.recipe_name);
+    assert!(
+        s.message.as_ref().is_some_and(|m| m
+            .text
+            .contains(&format!("as batch {} was made", detail.row.code))),
+        "{:?}",
+        s.message
+    );
     // Export the batches shown: CSV and JSON Lines, never over a file.
     run(&mut s, &mut services, Command::ShowBatches);
     cmd(&mut s, Command::Cancel);

@@ -113,7 +113,19 @@ impl Services {
                 )?;
                 vec![Action::Info(format!("A copy is in {}.", path.display()))]
             }
-            Effect::LoadBatchRecipe(code) => vec![self.load_batch_recipe(&code)?],
+            Effect::LoadBatchRecipe(code) => {
+                let loaded = self.load_batch_recipe(&code)?;
+                let said = match &loaded {
+                    Action::RecipeLoaded {
+                        source: RecipeSource::Database { name, version, .. },
+                        ..
+                    } => format!(
+                        "{name} version {version}, as batch {code} was made: b starts a new batch of it."
+                    ),
+                    _ => format!("The recipe of batch {code}."),
+                };
+                vec![loaded, Action::Info(said)]
+            }
             Effect::ExportBatches { query, path } => {
                 let format = if path
                     .extension()

@@ -74,7 +74,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
         Command::ExportBatches => prompt(
             state,
             PromptPurpose::ExportBatches,
-            "Export the batches shown to the new file (.csv, or .jsonl for JSON Lines)".into(),
+            "Export the batches shown to a new file (.csv or .jsonl)".into(),
             "batches.csv".into(),
         ),
         Command::Search => {
