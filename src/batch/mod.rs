@@ -1,4 +1,4 @@
-//! The batch domain, pure: what a batch record is ([`types`]), planning one from a
+//! The batch domain, pure: what a batch record is (`types`), planning one from a
 //! recipe ([`plan`]), correcting it by amendments ([`amend`]), checking it
 //! ([`validate`]), sealing it at sign-off ([`seal`]), setting its readings against
 //! its prediction ([`compare`]), its public JSON and CSV forms ([`jsonl`],
