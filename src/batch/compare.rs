@@ -125,6 +125,16 @@ impl Default for LogSetting {
 
 impl LogSetting {
     /// The setting, with the built-in catalog.
+    /// Puts `overrides` (a run's own instrument precisions) over the log's, kind by kind.
+    pub fn override_precisions(&mut self, overrides: &[(MeasurementKind, f64)]) {
+        for (kind, p) in overrides {
+            match self.precisions.iter_mut().find(|(k, _)| k == kind) {
+                Some(entry) => entry.1 = *p,
+                None => self.precisions.push((*kind, *p)),
+            }
+        }
+    }
+
     pub fn setting(&self) -> Setting<'_> {
         Setting {
             catalog: Catalog::builtin(),

@@ -5,8 +5,9 @@
 //! the trade (common practice), stated here once so every report uses the same:
 //! - `precision`: what a usual instrument for the kind resolves (a cryoscope
 //!   reads to a few thousandths of a kelvin, a probe thermometer to a few
-//!   tenths, a hand refractometer to 0.2 °Bx). Pass the real instrument's
-//!   precision with each measurement when it is known.
+//!   tenths, a hand refractometer to 0.2 °Bx). A log may keep its own
+//!   instruments' precisions (`gelu batch precision`, the workspace's settings),
+//!   and a run may give them (`--precision`).
 //! - `batch_spread_floor`: the least batch-to-batch scatter to expect even with
 //!   a perfect instrument (weighing to ±1 %, fruit and dairy lots, freezer timing).
 //! - `prior_scale`: how large a systematic offset of the model is believed
@@ -74,6 +75,20 @@ pub const PREDICTED_KINDS: [&str; 6] = [
     "mass-g",
 ];
 
+/// Prefix of the batch-log setting that holds a log's own instrument precision
+/// for a kind (`measure.precision.freezing-point-c`), in the kind's difference unit.
+pub const PRECISION_SETTING_PREFIX: &str = "measure.precision.";
+
+/// The setting of the log's precision of freezing-point readings (K).
+pub const FREEZING_POINT_PRECISION_SETTING: &str = "measure.precision.freezing-point-c";
+
+/// A stored precision setting read: a positive finite number, else `None`.
+pub fn precision_from_setting(value: Option<&str>) -> Option<f64> {
+    value
+        .and_then(|v| v.trim().parse::<f64>().ok())
+        .filter(|p| *p > 0.0 && p.is_finite())
+}
+
 /// The defaults of a kind, if it is one the log knows.
 pub fn defaults(kind: &str) -> Option<&'static KindDefaults> {
     KINDS.iter().find(|k| k.kind == kind)
@@ -93,6 +108,10 @@ mod tests {
         for k in PREDICTED_KINDS {
             assert!(defaults(k).is_some_and(|d| d.predicted), "{k}");
         }
+        assert_eq!(
+            FREEZING_POINT_PRECISION_SETTING,
+            format!("{PRECISION_SETTING_PREFIX}freezing-point-c")
+        );
         assert_eq!(
             KINDS.iter().filter(|k| k.predicted).count(),
             PREDICTED_KINDS.len()

@@ -73,7 +73,10 @@ pub use draw::{
     DEFAULT_DRAW_FROZEN_FRACTION, DRAW_FROZEN_FRACTION_SETTING, DRAW_FROZEN_FRACTION_SOURCE,
     draw_frozen_fraction_from_setting, predicted_draw_temp_c,
 };
-pub use kinds::{KINDS, KindDefaults, PREDICTED_KINDS, defaults as kind_defaults};
+pub use kinds::{
+    FREEZING_POINT_PRECISION_SETTING, KINDS, KindDefaults, PRECISION_SETTING_PREFIX,
+    PREDICTED_KINDS, defaults as kind_defaults, precision_from_setting,
+};
 pub use predict::{Predictions, predict};
 pub use refractometer::{
     BRIX_SCALE_MAX, BrixError, BrixPrediction, ETHANOL_TRACE_PCT, SoluteRefraction,

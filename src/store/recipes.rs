@@ -6,8 +6,8 @@ use rusqlite::{OptionalExtension, Transaction, params};
 use super::Store;
 use super::error::{Result, StoreError};
 use super::types::{CustomItem, RecipeSummary};
-use crate::batch::RecipeVersion;
 use crate::batch::version::content_hash;
+use crate::batch::{MeasurementKind, RecipeVersion};
 use crate::clock;
 use crate::model::time::time_text;
 
@@ -231,13 +231,56 @@ impl Store {
     }
 
     /// What setting readings against predictions takes from this log: the draw
-    /// share and the corrections turned on.
+    /// share, the corrections turned on and the log's instrument precisions.
     pub fn log_setting(&self) -> Result<crate::batch::compare::LogSetting> {
         Ok(crate::batch::compare::LogSetting {
             draw_frozen_fraction: self.draw_frozen_fraction()?,
             corrections: self.corrections_in_force()?,
-            precisions: Vec::new(),
+            precisions: self.instrument_precisions()?,
         })
+    }
+
+    /// The instrument precisions set for this log, by kind (in each kind's
+    /// difference unit); kinds not listed use their usual precision.
+    pub fn instrument_precisions(&self) -> Result<Vec<(MeasurementKind, f64)>> {
+        let mut out = Vec::new();
+        for kind in MeasurementKind::ALL {
+            let key = format!(
+                "{}{}",
+                crate::measure::PRECISION_SETTING_PREFIX,
+                kind.as_str()
+            );
+            if let Some(p) =
+                crate::measure::precision_from_setting(self.get_setting(&key)?.as_deref())
+            {
+                out.push((kind, p));
+            }
+        }
+        Ok(out)
+    }
+
+    /// Sets this log's instrument precision for `kind` (above zero, in its
+    /// difference unit), or with `None` goes back to the kind's usual one.
+    pub fn set_instrument_precision(
+        &mut self,
+        kind: MeasurementKind,
+        precision: Option<f64>,
+    ) -> Result<()> {
+        let key = format!(
+            "{}{}",
+            crate::measure::PRECISION_SETTING_PREFIX,
+            kind.as_str()
+        );
+        match precision {
+            Some(p) if p > 0.0 && p.is_finite() => self.set_setting(&key, &p.to_string()),
+            Some(p) => Err(StoreError::Invalid(format!(
+                "an instrument's precision is above zero, not {p}"
+            ))),
+            None => self.write(|tx| {
+                tx.execute("DELETE FROM settings WHERE key = ?1", params![key])?;
+                Ok(())
+            }),
+        }
     }
 
     /// Sets the share of water frozen at draw (0..1) for this log.

@@ -279,3 +279,39 @@ fn a_report_shows_the_corrections_in_force_beside_the_plain_prediction() {
     assert!(text.contains("calibrated"), "{text}");
     assert!(text.contains("from 12 batches"), "{text}");
 }
+
+#[test]
+fn the_logs_instrument_precision_is_used_until_a_flag_says_otherwise() {
+    let (_dir, db) = new_db();
+    vanilla_batches(&db, 3, 0.3);
+    let offset = |extra: &[&str]| {
+        let args: Vec<&str> = FIT.iter().copied().chain(extra.iter().copied()).collect();
+        json(&db, &[&args[..], &["--json"]].concat())["correction"]["offset"]
+            .as_f64()
+            .unwrap()
+    };
+    let cryoscope = offset(&[]);
+    let thermometer = offset(&["--precision", "freezing-point-c=0.3"]);
+    assert!(thermometer < cryoscope, "{thermometer} {cryoscope}");
+    // The log's own precision: a probe thermometer (0.3 K) for freezing points.
+    let listed = run(&db, &["batch", "precision"], 0);
+    assert!(
+        listed.contains("freezing-point-c") && listed.contains("0.005 K (usual)"),
+        "{listed}"
+    );
+    let set = run(&db, &["batch", "precision", "freezing-point-c=0.3"], 0);
+    assert!(set.contains("0.3 K (this log)"), "{set}");
+    assert_eq!(offset(&[]), thermometer);
+    // A flag still wins for one run.
+    assert_eq!(
+        offset(&["--precision", "freezing-point-c=0.005"]),
+        cryoscope
+    );
+    // Back to the usual.
+    let reset = run(&db, &["batch", "precision", "freezing-point-c=usual"], 0);
+    assert!(reset.contains("0.005 K (usual)"), "{reset}");
+    assert_eq!(offset(&[]), cryoscope);
+    // Nonsense is refused and changes nothing.
+    run(&db, &["batch", "precision", "freezing-point-c=-1"], 2);
+    run(&db, &["batch", "precision", "ph=0.1"], 2);
+}

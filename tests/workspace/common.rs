@@ -128,6 +128,7 @@ pub fn liqueur_state() -> State {
 /// Goes to the settings screen and opens the setting `field` for typing.
 pub fn open_setting(state: &mut State, field: gelu::tui::state::SettingField) {
     cmd(state, Command::ShowSettings);
+    cmd(state, Command::First);
     let at = gelu::tui::state::SettingField::ALL
         .iter()
         .position(|f| *f == field)

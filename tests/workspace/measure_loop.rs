@@ -344,3 +344,31 @@ fn a_correction_in_force_shows_on_the_recipe_screen_beside_the_plain_prediction(
     assert!(screen.contains(&shown), "{shown}\n{screen}");
     assert!(screen.contains("12 batches"), "{screen}");
 }
+
+#[test]
+fn how_finely_freezing_points_are_read_is_a_setting() {
+    // A kitchen with a probe thermometer (about 0.3 K) rather than a cryoscope.
+    let mut s = loaded_state();
+    assert_eq!(s.settings.freezing_point_precision_k, None);
+    open_setting(&mut s, SettingField::FreezingPointPrecision);
+    cmd(&mut s, Command::ClearField);
+    type_text(&mut s, "0");
+    cmd(&mut s, Command::Confirm);
+    assert!(
+        matches!(&s.overlay, Some(Overlay::Prompt(p)) if p.error.as_deref().is_some_and(|e| e.contains("above 0 K"))),
+        "{:?}",
+        s.overlay
+    );
+    cmd(&mut s, Command::ClearField);
+    type_text(&mut s, "0.3");
+    let effects = cmd(&mut s, Command::Confirm);
+    assert_eq!(s.settings.freezing_point_precision_k, Some(0.3));
+    assert!(
+        matches!(&effects[..], [Effect::SaveSettings(x)] if x.freezing_point_precision_k == Some(0.3))
+    );
+    open_setting(&mut s, SettingField::FreezingPointPrecision);
+    cmd(&mut s, Command::ClearField);
+    type_text(&mut s, "usual");
+    cmd(&mut s, Command::Confirm);
+    assert_eq!(s.settings.freezing_point_precision_k, None);
+}

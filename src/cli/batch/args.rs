@@ -176,6 +176,16 @@ pub enum BatchCommand {
         #[arg(long)]
         json: bool,
     },
+    /// Show, or set, this log's instrument precisions: how finely your
+    /// instruments read each kind gelu predicts (a cryoscope 0.005 K, a probe
+    /// thermometer 0.3 K). `compare` and `calibrate` weigh and judge readings by
+    /// them; their --precision flag wins for one run.
+    Precision {
+        /// KIND=PRECISION to set (in the kind's difference unit, like
+        /// freezing-point-c=0.3), or KIND=usual to go back to the usual one.
+        #[arg(value_name = "KIND=PRECISION", value_parser = super::precision::setting)]
+        set: Vec<(MeasurementKind, Option<f64>)>,
+    },
     /// Show, or set, the share of water frozen at draw the log predicts draw
     /// temperatures at (default 0.5: about half the water is frozen at draw,
     /// McGee, On Food and Cooking).

@@ -192,7 +192,7 @@ pub fn run(
         };
     }
     let mut log = store.log_setting()?;
-    log.precisions = precisions.to_vec();
+    log.override_precisions(precisions);
     let p = match preview(store, request, &log)? {
         Ok(p) => p,
         Err(e) => {

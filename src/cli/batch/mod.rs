@@ -6,6 +6,7 @@
 mod args;
 mod calibrate;
 mod compare;
+mod precision;
 
 use std::io::Write;
 use std::path::Path;
@@ -389,7 +390,7 @@ pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
         } => {
             let store = open_store(db)?;
             let mut log = store.log_setting()?;
-            log.precisions.clone_from(&precisions.list);
+            log.override_precisions(&precisions.list);
             let f = filter(
                 &FilterArgs {
                     recipe: recipe.clone(),
@@ -439,6 +440,7 @@ pub fn run(args: &BatchArgs, db: Option<&Path>) -> anyhow::Result<ExitCode> {
             calibrate::run(&mut store, &request, &precisions.list, turn, &by, *json)
         }
         BatchCommand::Calibrations { json } => calibrate::history(&open_store(db)?, *json),
+        BatchCommand::Precision { set } => precision::run(&mut open_store(db)?, set),
         BatchCommand::DrawShare { share } => {
             let mut store = open_store(db)?;
             if let Some(text) = share {

@@ -51,6 +51,11 @@ pub fn settings_pairs(s: &Settings) -> Vec<(&'static str, String)> {
             DRAW_FROZEN_FRACTION_SETTING,
             s.draw_frozen_fraction.to_string(),
         ),
+        (
+            crate::measure::FREEZING_POINT_PRECISION_SETTING,
+            s.freezing_point_precision_k
+                .map_or_else(String::new, |p| p.to_string()),
+        ),
         (KEY_OPERATOR, s.operator.clone()),
         (SYNC_URL_KEY, s.sync_url.clone()),
         (
@@ -98,6 +103,9 @@ pub fn load_settings(store: &Store) -> Settings {
     if let Ok(share) = store.draw_frozen_fraction() {
         s.draw_frozen_fraction = share;
     }
+    s.freezing_point_precision_k = crate::measure::precision_from_setting(
+        get(crate::measure::FREEZING_POINT_PRECISION_SETTING).as_deref(),
+    );
     if let Ok(corrections) = store.corrections_in_force() {
         s.corrections = corrections;
     }

@@ -6,7 +6,7 @@ use super::super::state::{PromptPurpose, SettingField, State};
 use super::common::move_cursor;
 use super::common::prompt_on;
 use crate::batch::shared::check_site_code;
-use crate::model::units::{parse_freezing_temp, parse_share};
+use crate::model::units::{parse_freezing_temp, parse_number, parse_share};
 use crate::model::{MassUnit, TempUnit};
 use crate::sync::Target;
 use crate::sync::target::has_password;
@@ -46,12 +46,11 @@ fn toggle(state: &mut State, field: SettingField) -> Vec<Effect> {
         }
         _ => {
             let text = state.settings.field_text(field);
-            prompt_on(
-                state,
-                PromptPurpose::Setting(field),
-                field.label().into(),
-                text,
-            );
+            let title = match field {
+                SettingField::FreezingPointPrecision => "Freezing points read to, in K: a cryoscope 0.005, a probe thermometer about 0.3 (`usual`: the usual)".into(),
+                _ => field.label().into(),
+            };
+            prompt_on(state, PromptPurpose::Setting(field), title, text);
             Vec::new()
         }
     }
@@ -87,6 +86,20 @@ pub fn accept(state: &mut State, field: SettingField, text: &str) -> Result<Vec<
             state.settings.freezer_temp_c = parse_freezing_temp(text, unit)?
         }
         SettingField::DrawShare => state.settings.draw_frozen_fraction = parse_share(text)?,
+        SettingField::FreezingPointPrecision => {
+            let t = text.trim().trim_end_matches('K').trim();
+            state.settings.freezing_point_precision_k = if t.is_empty()
+                || t.eq_ignore_ascii_case("usual")
+            {
+                None
+            } else {
+                let p = parse_number(t)?;
+                if !(p > 0.0 && p <= 10.0) {
+                    return Err("a precision above 0 K and at most 10 K, like 0.3 for a probe thermometer, or `usual`".into());
+                }
+                Some(p)
+            };
+        }
         SettingField::Operator => {
             let name = text.trim();
             if name.chars().count() > 60 {

@@ -84,6 +84,9 @@ pub struct Settings {
     pub freezer_temp_c: f64,
     /// Share of the water frozen at draw (0..1) the draw temperature is predicted at.
     pub draw_frozen_fraction: f64,
+    /// This log's precision of freezing-point readings (K); `None`: the usual
+    /// one (a cryoscope's, `measure::KINDS`).
+    pub freezing_point_precision_k: Option<f64>,
     /// Who is working, written on new batches.
     pub operator: String,
     /// This log's site code, carried by new batch codes (renamed through the store).
@@ -106,6 +109,7 @@ impl Default for Settings {
             cabinet_temp_c: DEFAULT_CABINET_TEMP_C,
             freezer_temp_c: DEFAULT_FREEZER_TEMP_C,
             draw_frozen_fraction: crate::measure::DEFAULT_DRAW_FROZEN_FRACTION,
+            freezing_point_precision_k: None,
             operator: String::new(),
             site_code: String::new(),
             sync_url: String::new(),
@@ -216,6 +220,10 @@ impl Settings {
                 format!("{:.1}", self.temp_unit.from_c(self.freezer_temp_c))
             }
             SettingField::DrawShare => trim_number(100.0 * self.draw_frozen_fraction),
+            SettingField::FreezingPointPrecision => match self.freezing_point_precision_k {
+                Some(p) => trim_number(p),
+                None => "usual".into(),
+            },
             SettingField::Operator => self.operator.clone(),
             SettingField::SiteCode => self.site_code.clone(),
             SettingField::SyncUrl => self.sync_url.clone(),
@@ -238,6 +246,8 @@ pub enum SettingField {
     FreezerTemp,
     /// Share of water frozen at draw.
     DrawShare,
+    /// How finely freezing points are read.
+    FreezingPointPrecision,
     /// Operator name.
     Operator,
     /// This log's site code.
@@ -248,13 +258,14 @@ pub enum SettingField {
 
 impl SettingField {
     /// Every setting, in screen order.
-    pub const ALL: [SettingField; 9] = [
+    pub const ALL: [SettingField; 10] = [
         SettingField::TempUnit,
         SettingField::MassUnit,
         SettingField::ServingTarget,
         SettingField::CabinetTemp,
         SettingField::FreezerTemp,
         SettingField::DrawShare,
+        SettingField::FreezingPointPrecision,
         SettingField::SiteCode,
         SettingField::SyncUrl,
         SettingField::Operator,
@@ -269,6 +280,7 @@ impl SettingField {
             SettingField::CabinetTemp => "Display cabinet temperature",
             SettingField::FreezerTemp => "Freezer temperature",
             SettingField::DrawShare => "Water frozen at draw (predicted draw)",
+            SettingField::FreezingPointPrecision => "Freezing points read to (K)",
             SettingField::Operator => "Operator",
             SettingField::SiteCode => "Site code (in new batch codes)",
             SettingField::SyncUrl => "Sync server (hub URL, no password)",

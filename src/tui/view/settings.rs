@@ -28,6 +28,11 @@ pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
                     value.push(' ');
                     value.push_str(t);
                 }
+                SettingField::FreezingPointPrecision
+                    if state.settings.freezing_point_precision_k.is_none() =>
+                {
+                    value = format!("{} (usual: a cryoscope)", usual_freezing_point_precision());
+                }
                 SettingField::Operator | SettingField::SiteCode | SettingField::SyncUrl
                     if value.is_empty() =>
                 {
@@ -48,4 +53,11 @@ pub fn render(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
     let mut ts = TableState::default();
     ts.select(Some(state.settings_cursor));
     frame.render_stateful_widget(table, area, &mut ts);
+}
+
+/// The usual precision of a freezing-point reading, as text (K).
+fn usual_freezing_point_precision() -> String {
+    crate::measure::kind_defaults("freezing-point-c").map_or_else(String::new, |d| {
+        crate::model::units::trim_number(d.precision)
+    })
 }
