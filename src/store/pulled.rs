@@ -351,6 +351,15 @@ fn write_final(
     Ok(())
 }
 
+/// Whether an entry with identity `hash` is already in `table` (pulled before).
+fn held(tx: &Transaction, table: &str, hash: &str) -> Result<bool> {
+    Ok(tx
+        .prepare_cached(&format!(
+            "SELECT EXISTS (SELECT 1 FROM {table} WHERE entry_hash = ?1)"
+        ))?
+        .query_row([hash], |r| r.get(0))?)
+}
+
 fn write_entry(
     tx: &Transaction,
     site: &str,
@@ -388,6 +397,11 @@ fn write_entry(
         EntryBody::Note { .. } => "batch_notes",
         EntryBody::Amendment { .. } => "amendments",
     };
+    if held(tx, table, hash)? {
+        // Pulled before (a log that starts over with another hub pulls everything
+        // again), whether its record has been signed off here since or not.
+        return Ok(());
+    }
     let signed_off: bool = tx
         .prepare_cached("SELECT status = 'final' FROM batches WHERE id = ?1")?
         .query_row([id], |r| r.get(0))?;
@@ -411,14 +425,6 @@ fn write_entry(
             &detail,
             &record,
         )?);
-        return Ok(());
-    }
-    let present: bool = tx
-        .prepare_cached(&format!(
-            "SELECT EXISTS (SELECT 1 FROM {table} WHERE entry_hash = ?1)"
-        ))?
-        .query_row([hash], |r| r.get(0))?;
-    if present {
         return Ok(());
     }
     let count = |tx: &Transaction| -> Result<usize> {
