@@ -351,13 +351,16 @@ fn write_final(
     Ok(())
 }
 
-/// Whether an entry with identity `hash` is already in `table` (pulled before).
-fn held(tx: &Transaction, table: &str, hash: &str) -> Result<bool> {
+/// Whether batch row `id` already holds the entry with identity `hash` in `table`
+/// (pulled before). An identity names its batch's code and head, so an entry
+/// already here is on the row [`owner`] found; looking it up there uses the index
+/// kept batch first (migration 6).
+fn held(tx: &Transaction, table: &str, id: i64, hash: &str) -> Result<bool> {
     Ok(tx
         .prepare_cached(&format!(
-            "SELECT EXISTS (SELECT 1 FROM {table} WHERE entry_hash = ?1)"
+            "SELECT EXISTS (SELECT 1 FROM {table} WHERE batch_id = ?1 AND entry_hash = ?2)"
         ))?
-        .query_row([hash], |r| r.get(0))?)
+        .query_row(params![id, hash], |r| r.get(0))?)
 }
 
 fn write_entry(
@@ -397,7 +400,7 @@ fn write_entry(
         EntryBody::Note { .. } => "batch_notes",
         EntryBody::Amendment { .. } => "amendments",
     };
-    if held(tx, table, hash)? {
+    if held(tx, table, id, hash)? {
         // Pulled before (a log that starts over with another hub pulls everything
         // again), whether its record has been signed off here since or not.
         return Ok(());

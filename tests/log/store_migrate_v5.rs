@@ -142,3 +142,51 @@ fn entries_pulled_under_version_5_are_taken_once_when_pulled_again() {
     assert!(store.conflicts(false).unwrap().is_empty());
     assert!(store.check().unwrap().is_empty(), "{:?}", store.check());
 }
+
+/// The indexes on a table, with the columns each keeps, in order.
+fn indexes(conn: &Connection, table: &str) -> Vec<(String, Vec<String>)> {
+    let names: Vec<String> = conn
+        .prepare("SELECT name FROM pragma_index_list(?1) ORDER BY name")
+        .unwrap()
+        .query_map([table], |r| r.get(0))
+        .unwrap()
+        .collect::<rusqlite::Result<_>>()
+        .unwrap();
+    names
+        .into_iter()
+        .map(|name| {
+            let columns = conn
+                .prepare("SELECT name FROM pragma_index_info(?1) ORDER BY seqno")
+                .unwrap()
+                .query_map([&name], |r| r.get(0))
+                .unwrap()
+                .collect::<rusqlite::Result<_>>()
+                .unwrap();
+            (name, columns)
+        })
+        .collect()
+}
+
+/// Migration 6: a pulled entry's identity is kept beside its batch's (batch first),
+/// not alone in hash order, where each new entry went to a random page of an index
+/// as large as everything ever pulled.
+#[test]
+fn after_the_upgrade_pulled_identities_are_kept_by_batch() {
+    let dir = tempfile::tempdir().unwrap();
+    let path = copy_of_v5(dir.path());
+    drop(Store::open(&path).unwrap());
+    let conn = Connection::open(&path).unwrap();
+    for table in ["measurements", "batch_notes", "amendments"] {
+        let found = indexes(&conn, table);
+        let with_hash: Vec<&Vec<String>> = found
+            .iter()
+            .map(|(_, columns)| columns)
+            .filter(|columns| columns.iter().any(|c| c == "entry_hash"))
+            .collect();
+        assert_eq!(
+            with_hash,
+            [&vec!["batch_id".to_owned(), "entry_hash".to_owned()]],
+            "{table}: {found:?}"
+        );
+    }
+}
