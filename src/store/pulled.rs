@@ -351,6 +351,18 @@ fn write_final(
     Ok(())
 }
 
+/// Whether batch row `id` already holds the entry with identity `hash` in `table`
+/// (pulled before). An identity names its batch's code and head, so an entry
+/// already here is on the row [`owner`] found; looking it up there uses the index
+/// kept batch first (migration 6).
+fn held(tx: &Transaction, table: &str, id: i64, hash: &str) -> Result<bool> {
+    Ok(tx
+        .prepare_cached(&format!(
+            "SELECT EXISTS (SELECT 1 FROM {table} WHERE batch_id = ?1 AND entry_hash = ?2)"
+        ))?
+        .query_row(params![id, hash], |r| r.get(0))?)
+}
+
 fn write_entry(
     tx: &Transaction,
     site: &str,
@@ -388,6 +400,11 @@ fn write_entry(
         EntryBody::Note { .. } => "batch_notes",
         EntryBody::Amendment { .. } => "amendments",
     };
+    if held(tx, table, id, hash)? {
+        // Pulled before (a log that starts over with another hub pulls everything
+        // again), whether its record has been signed off here since or not.
+        return Ok(());
+    }
     let signed_off: bool = tx
         .prepare_cached("SELECT status = 'final' FROM batches WHERE id = ?1")?
         .query_row([id], |r| r.get(0))?;
@@ -411,14 +428,6 @@ fn write_entry(
             &detail,
             &record,
         )?);
-        return Ok(());
-    }
-    let present: bool = tx
-        .prepare_cached(&format!(
-            "SELECT EXISTS (SELECT 1 FROM {table} WHERE entry_hash = ?1)"
-        ))?
-        .query_row([hash], |r| r.get(0))?;
-    if present {
         return Ok(());
     }
     let count = |tx: &Transaction| -> Result<usize> {

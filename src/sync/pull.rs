@@ -139,6 +139,18 @@ fn page_of(table: &str, rows: &[Row], page: &mut PulledPage) {
     }
 }
 
+/// The lines of the batches named by `$1` (codes) and `$2` (head identities), each
+/// batch's in order. Each batch's are found through the primary key: the subquery's
+/// ORDER BY keeps it a look-up per batch (a subquery with one is not merged into the
+/// outer query), where a plain join let the planner sort every line the hub holds.
+const LINES_SQL: &str = "SELECT w.code, w.head_hash, l.ingredient, l.planned_g, l.actual_g, l.lot
+     FROM unnest($1::text[], $2::text[]) WITH ORDINALITY AS w (code, head_hash, n)
+     CROSS JOIN LATERAL (
+         SELECT position, ingredient, planned_g, actual_g, lot FROM gelu.batch_lines
+         WHERE code = w.code AND head_hash = w.head_hash ORDER BY position
+     ) l
+     ORDER BY w.n, l.position";
+
 /// Fills in the lines of the page's batches (one query for them all).
 fn add_lines(hub: &mut Hub, page: &mut PulledPage) -> Result<(), postgres::Error> {
     if page.heads.is_empty() {
@@ -146,13 +158,7 @@ fn add_lines(hub: &mut Hub, page: &mut PulledPage) -> Result<(), postgres::Error
     }
     let codes: Vec<&str> = page.heads.iter().map(|(h, _)| h.code.as_str()).collect();
     let hashes: Vec<&str> = page.heads.iter().map(|(_, h)| h.as_str()).collect();
-    let rows = hub.client.query(
-        "SELECT l.code, l.head_hash, l.ingredient, l.planned_g, l.actual_g, l.lot
-         FROM unnest($1::text[], $2::text[]) AS w (code, head_hash)
-         JOIN gelu.batch_lines l ON l.code = w.code AND l.head_hash = w.head_hash
-         ORDER BY l.code, l.head_hash, l.position",
-        &[&codes, &hashes],
-    )?;
+    let rows = hub.client.query(LINES_SQL, &[&codes, &hashes])?;
     let mut at: std::collections::HashMap<(String, String), Vec<BatchLine>> =
         std::collections::HashMap::new();
     for r in rows {

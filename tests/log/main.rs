@@ -19,5 +19,6 @@ mod import_refusals;
 mod own_items_cli;
 mod store_import;
 mod store_migrate;
+mod store_migrate_v5;
 mod store_open;
 mod store_records;
