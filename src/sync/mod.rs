@@ -19,7 +19,8 @@ pub mod schema;
 pub mod target;
 pub mod tls;
 
-use std::time::Instant;
+use std::sync::mpsc;
+use std::time::{Duration, Instant};
 
 use crate::clock;
 use crate::model::time::time_text;
@@ -183,12 +184,7 @@ pub struct Hub {
 impl Hub {
     /// Connects, checks the hub's schema version, sets it up or upgrades it.
     pub fn connect(target: &Target) -> Result<Hub, SyncError> {
-        let connected = if target.tls == target::TlsMode::Off {
-            target.config.connect(postgres::NoTls)
-        } else {
-            target.config.connect(tls::connector(target)?)
-        };
-        let mut client = connected.map_err(|e| SyncError::from_pg(&target.shown, e, true))?;
+        let mut client = connect_within(target, ANSWER_WITHIN)?;
         let id = schema::ensure(&mut client, &target.shown)?;
         let may_write: bool = client
             .query_one("SELECT has_table_privilege('gelu.batches', 'INSERT')", &[])
@@ -209,6 +205,46 @@ impl Hub {
 
     fn fail(&self, e: postgres::Error) -> SyncError {
         SyncError::from_pg(&self.target.shown, e, false)
+    }
+}
+
+/// How long a hub may take to open a connection: reach it, agree on TLS and log
+/// in (a few hundred milliseconds on a sound network; the socket alone may take
+/// 10 s).
+pub const ANSWER_WITHIN: Duration = Duration::from_secs(30);
+
+/// Opens a connection to the hub, giving up after `within`. The socket's own
+/// timeout covers only reaching the host: a server that accepts the connection
+/// but never answers (wedged, or a proxy with nothing behind it) would otherwise
+/// hold the sync for ever. The attempt runs on a thread of its own; one that gives
+/// up leaves that thread waiting on its socket until the server or the system
+/// closes it, which holds no lock and writes nothing.
+fn connect_within(target: &Target, within: Duration) -> Result<postgres::Client, SyncError> {
+    let (tell, answer) = mpsc::channel();
+    let config = target.config.clone();
+    let attempt = if target.tls == target::TlsMode::Off {
+        std::thread::Builder::new()
+            .name("gelu-hub-connect".into())
+            .spawn(move || drop(tell.send(config.connect(postgres::NoTls))))
+    } else {
+        let tls = tls::connector(target)?;
+        std::thread::Builder::new()
+            .name("gelu-hub-connect".into())
+            .spawn(move || drop(tell.send(config.connect(tls))))
+    };
+    attempt.map_err(|e| SyncError::Unreachable {
+        server: target.shown.clone(),
+        detail: format!("no thread to connect on: {e}"),
+    })?;
+    match answer.recv_timeout(within) {
+        Ok(connected) => connected.map_err(|e| SyncError::from_pg(&target.shown, e, true)),
+        Err(_) => Err(SyncError::Unreachable {
+            server: target.shown.clone(),
+            detail: format!(
+                "it took the connection but did not answer within {} s",
+                within.as_secs_f64()
+            ),
+        }),
     }
 }
 
@@ -233,4 +269,27 @@ pub fn sync(store: &mut Store, target: &Target) -> Result<SyncReport, SyncError>
     report.status = store.sync_status()?;
     report.seconds = started.elapsed().as_secs_f64();
     Ok(report)
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// A server that takes connections and never says a word: the connection
+    /// gives up after the time allowed, with an error that says so.
+    #[test]
+    fn a_hub_that_never_answers_is_given_up_on() {
+        let silent = std::net::TcpListener::bind("127.0.0.1:0").unwrap();
+        let port = silent.local_addr().unwrap().port();
+        let target = Target::parse(&format!("postgresql://kitchen@127.0.0.1:{port}/hub")).unwrap();
+        let Err(e) = connect_within(&target, Duration::from_millis(300)) else {
+            panic!("a silent server was taken for a hub");
+        };
+        // The listener is still open: the attempt was given up, not refused.
+        assert!(silent.local_addr().is_ok());
+        assert!(matches!(e, SyncError::Unreachable { .. }), "{e}");
+        let said = e.to_string();
+        assert!(said.contains("did not answer within 0.3 s"), "{said}");
+        assert!(said.contains("Nothing was changed here"), "{said}");
+    }
 }
