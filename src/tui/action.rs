@@ -324,13 +324,11 @@ pub enum Effect {
 }
 
 impl Effect {
-    /// What the workspace says while a slow effect runs (one that waits on the
-    /// network or reads the whole log), so the screen never looks frozen.
+    /// What the workspace says while a slow effect runs (one that reads the whole
+    /// log or writes a large file), so the screen never looks frozen. A sync is not
+    /// among them: it runs in the background.
     pub fn busy_words(&self) -> Option<&'static str> {
         match self {
-            Effect::SyncNow => Some(
-                "Synchronising with the hub... (if it cannot be reached, this gives up within about a minute)",
-            ),
             Effect::LoadComparison(_) => Some("Setting the predictions against the readings..."),
             Effect::ExportBatches { .. } => Some("Exporting the batches shown..."),
             _ => None,

@@ -1,8 +1,11 @@
 //! The loop: draw, block until the next terminal event (no polling, so an idle
 //! workspace uses no CPU), turn it into an action through the keymap, update,
-//! and carry out the effects, whose outcomes are actions again.
+//! and carry out the effects, whose outcomes are actions again. While work runs
+//! in the background (a sync), the loop also looks for its outcome a few times a
+//! second.
 
 use std::collections::VecDeque;
+use std::time::Duration;
 
 use ratatui::crossterm::event::{self, Event};
 
@@ -36,6 +39,10 @@ pub fn run(launch: &Launch) -> anyhow::Result<()> {
                 return Ok(());
             }
             term.draw(|frame| view(&state, frame))?;
+            if services.background_running() && !event::poll(BACKGROUND_LOOK)? {
+                queue.extend(services.background_outcome(false));
+                continue;
+            }
             let event = event::read()?;
             if let Event::Key(key) = event
                 && let Some(action) = keymap::action_for(state.context(), key)
@@ -48,9 +55,22 @@ pub fn run(launch: &Launch) -> anyhow::Result<()> {
     outcome
 }
 
-/// Updates with every queued action and performs the effects; true to quit.
+/// How often the loop looks for the outcome of work running in the background.
+const BACKGROUND_LOOK: Duration = Duration::from_millis(100);
+
+/// Updates with every queued action and performs the effects, waiting for any
+/// work they start in the background and taking in its outcome too (so that a
+/// caller without a terminal sees the whole of what a command did); true to quit.
 pub fn drain(state: &mut State, services: &mut Services, queue: &mut VecDeque<Action>) -> bool {
-    drain_showing(state, services, queue, &mut |_| {})
+    loop {
+        if drain_showing(state, services, queue, &mut |_| {}) {
+            return true;
+        }
+        if !services.background_running() {
+            return false;
+        }
+        queue.extend(services.background_outcome(true));
+    }
 }
 
 /// As [`drain`], first telling the user and calling `show` (to draw a frame)

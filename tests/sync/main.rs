@@ -13,3 +13,4 @@ mod hub_rules;
 mod outage;
 mod tls;
 mod two_sites;
+mod workspace;

@@ -45,6 +45,8 @@ const FIRST_RUN_RECIPE: &str = "Harbour vanilla";
 /// The files and database the workspace works on.
 pub struct Services {
     store: Store,
+    /// A sync running on its own thread, if one is.
+    sync: Option<hub::SyncJob>,
 }
 
 impl Services {
@@ -55,7 +57,29 @@ impl Services {
                 .with_context(|| format!("could not open the batch log {}", path.display()))?,
             None => Store::open_default().context("could not open the default batch log")?,
         };
-        Ok(Services { store })
+        Ok(Services { store, sync: None })
+    }
+
+    /// Whether work is running in the background (a sync), whose outcome
+    /// [`Services::background_outcome`] brings.
+    pub fn background_running(&self) -> bool {
+        self.sync.is_some()
+    }
+
+    /// The outcome of the work running in the background, as actions, once it is
+    /// over; waiting for it when `wait` is true. Empty while it still runs, and
+    /// when nothing runs.
+    pub fn background_outcome(&mut self, wait: bool) -> Vec<Action> {
+        let Some(job) = &self.sync else {
+            return Vec::new();
+        };
+        match job.outcome(&self.store, wait) {
+            Some(actions) => {
+                self.sync = None;
+                actions
+            }
+            None => Vec::new(),
+        }
     }
 
     /// The actions that set the workspace up: settings, the user's own items and
@@ -213,8 +237,20 @@ impl Services {
                 Vec::new()
             }
             Effect::LoadBatches(query) => vec![Action::BatchesPage(load_page(s, query)?)],
-            Effect::LoadSyncState => vec![Action::SyncState(hub::view(s)?)],
-            Effect::SyncNow => hub::sync_now(s)?,
+            Effect::LoadSyncState => vec![Action::SyncState(hub::view(s, self.sync.is_some())?)],
+            Effect::SyncNow if self.sync.is_some() => {
+                vec![Action::Info("A sync is already running.".into())]
+            }
+            Effect::SyncNow => match hub::start_sync(s)? {
+                hub::Started::Done(actions) => actions,
+                hub::Started::Running(job) => {
+                    self.sync = Some(job);
+                    Vec::new()
+                }
+            },
+            Effect::RenameSite(_) if self.sync.is_some() => anyhow::bail!(
+                "a sync is running; rename the site when it is over (the batches screen shows it)"
+            ),
             Effect::RenameSite(code) => hub::rename_site(s, &code)?,
             Effect::LoadBatchDetail(code) => match s.batch(&code)? {
                 Some(batch) => {

@@ -114,7 +114,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
         Command::SyncNow if state.batches.sync.running => state.tell("A sync is already running."),
         Command::SyncNow => {
             state.batches.sync.running = true;
-            state.tell("Synchronising with the hub…");
+            state.tell("Synchronising with the hub in the background; keep working meanwhile.");
             return vec![Effect::SyncNow];
         }
         _ => {}
