@@ -71,6 +71,12 @@ fn the_workspace_syncs_in_the_background_and_brings_the_other_sites_batches() {
         "{}",
         message(&state)
     );
+    // Working on meanwhile: a refresh reads the log again and still shows it running.
+    press_without_waiting(&mut state, &mut services, Command::RefreshBatches);
+    assert!(
+        state.batches.sync.running,
+        "a reload forgot the running sync"
+    );
     // Asking again while it runs starts nothing.
     press_without_waiting(&mut state, &mut services, Command::SyncNow);
     assert!(
