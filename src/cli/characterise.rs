@@ -154,10 +154,13 @@ pub fn text(c: &Characterisation) -> String {
             p.apparent_molar_mass_g_mol
         );
     }
+    let _ = writeln!(out, "  rms residual {:.3} K", c.rms_residual_k);
+    for caution in &c.cautions {
+        let _ = writeln!(out, "\nCaution: {caution}");
+    }
     let _ = writeln!(
         out,
-        "  rms residual {:.3} K\n\nA characterisation is an estimate from your readings: check it against a batch before relying on it.",
-        c.rms_residual_k
+        "\nA characterisation is an estimate from your readings: check it against a batch before relying on it."
     );
     out
 }

@@ -140,10 +140,29 @@ fn characterisation_recovers_nonelectrolyte_molar_masses_from_crc_rows() {
             case.molar_mass
         );
         assert!(c.norrish_k.is_some());
+        assert!(c.cautions.is_empty(), "{}: {:?}", case.id, c.cautions);
         for f in &c.points {
             assert!((f.freezing_point_c - f.model_c - f.residual_k).abs() < 1e-12);
         }
     }
+}
+
+#[test]
+fn a_norrish_k_held_at_its_limit_is_said_so() {
+    // Invented readings (a demo, not a source): the apparent molar mass falls from
+    // 46.7 to 42.4 g/mol between two dilutions, a spread no published sugar's
+    // non-ideality gives. The fit holds K at its limit, and the points still agree
+    // within a thermometer's 0.005 K, so it is not refused; it must be flagged.
+    let mut s = spec("quince", 1.0);
+    s.dry_matter = DryMatter::SolidsPct(15.0);
+    let points = [pt(10.0, 100.0, -0.55), pt(20.0, 100.0, -1.12)];
+    let c = characterise(&s, &points, Catalog::builtin()).unwrap();
+    let k = c.norrish_k.unwrap();
+    assert!((k - gelu::measure::NORRISH_K_MAX).abs() < 1e-3, "K {k}");
+    assert_eq!(c.cautions.len(), 1, "{:?}", c.cautions);
+    assert!(c.cautions[0].contains("limit"), "{:?}", c.cautions);
+    let json = serde_json::to_value(&c).unwrap();
+    assert_eq!(json["cautions"][0], c.cautions[0].as_str());
 }
 
 #[test]

@@ -134,6 +134,41 @@ fn the_text_report_names_what_was_found() {
     ] {
         assert!(text.contains(words), "`{words}` missing:\n{text}");
     }
+    // The CRC rows give a K well inside its range: nothing to be wary of.
+    assert!(!text.contains("Caution"), "{text}");
+    let out = characterise(home.path(), &["--json"]);
+    let v: Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(v["cautions"], serde_json::json!([]), "{v}");
+}
+
+#[test]
+fn a_norrish_k_held_at_its_limit_is_flagged_in_text_and_json() {
+    // Invented readings (a demo): a spread no sugar's non-ideality gives.
+    let home = tempfile::tempdir().unwrap();
+    let args = [
+        "characterise",
+        "--name",
+        "Quince puree",
+        "--id",
+        "quince",
+        "--solids-pct",
+        "15",
+        "--point",
+        "10:100:-0.55",
+        "20:100:-1.12",
+    ];
+    let text = run(home.path(), &args, 0);
+    assert!(
+        text.contains("Caution: Norrish K is held at its limit"),
+        "{text}"
+    );
+    let v = json(home.path(), &[&args[..], &["--json"]].concat());
+    assert!(
+        v["cautions"][0]
+            .as_str()
+            .is_some_and(|c| c.contains("limit")),
+        "{v}"
+    );
 }
 
 #[test]

@@ -35,7 +35,7 @@ fn workspace(site: &Site, url: &str, then: &[Command]) -> (State, Services) {
     let mut services = Services::open(&launch).unwrap();
     let mut state = State::new(false);
     let mut queue: VecDeque<Action> = services.startup(&launch).unwrap().into();
-    queue.extend(then.iter().map(|c| Action::Command(c.clone())));
+    queue.extend(then.iter().map(|c| Action::Command(*c)));
     assert!(!drain(&mut state, &mut services, &mut queue));
     (state, services)
 }

@@ -199,12 +199,28 @@ pub struct Characterisation {
     pub rms_residual_k: f64,
     /// Each point with the model's freezing point.
     pub points: Vec<PointFit>,
+    /// What to be wary of in a result that was not refused (for example a Norrish
+    /// K held at [`NORRISH_K_MAX`]), in plain words; empty when nothing is.
+    pub cautions: Vec<String>,
     /// The solute to save (model = ideal with the fitted K), validated.
     #[serde(skip)]
     pub solute: Solute,
     /// The ingredient to save (the sample as measured), validated.
     #[serde(skip)]
     pub ingredient: Ingredient,
+}
+
+/// Whether a fitted K is held at [`NORRISH_K_MAX`]: the search ends within about
+/// 1e-9 of a bound, and 0.001 is far inside what any fit means.
+fn k_at_limit(k: f64) -> bool {
+    k > NORRISH_K_MAX - 1e-3
+}
+
+impl Characterisation {
+    /// Whether the fitted Norrish K is held at its limit (then a caution says so).
+    pub fn norrish_k_at_limit(&self) -> bool {
+        self.norrish_k.is_some_and(k_at_limit)
+    }
 }
 
 /// Characterises the sample from its points; the solute and ingredient are
@@ -266,6 +282,15 @@ pub fn characterise(
     }
     let rms_residual_k =
         (fits.iter().map(|f| f.residual_k.powi(2)).sum::<f64>() / fits.len() as f64).sqrt();
+    let mut cautions = Vec::new();
+    if norrish_k.is_some_and(k_at_limit) {
+        cautions.push(format!(
+            "Norrish K is held at its limit of {NORRISH_K_MAX} (published sugars and polyols run \
+             from about 0.9 to 10.2): the molar mass falls with concentration faster than a \
+             sugar's would. Check the weighings and the dry matter, or add a more dilute point; \
+             the molar mass at infinite dilution rests on this limit."
+        ));
+    }
     let sucrose_equivalent = sucrose_equivalent(&binary, molar_mass, catalog)?;
 
     let solute = Solute {
@@ -297,6 +322,7 @@ pub fn characterise(
         solids_pct,
         rms_residual_k,
         points: fits,
+        cautions,
         solute,
         ingredient,
     })

@@ -123,9 +123,13 @@ pub fn check_form(state: &State, form: &mut Form) {
     form.summary = Some(match (all_typed, result(state, form)) {
         (false, _) => "Type the id, the name and at least one point; the result shows here.".into(),
         (true, Ok(c)) => {
-            let k = c
-                .norrish_k
-                .map_or("no K (1 point)".into(), |k| format!("K {k:.2}"));
+            let k = match c.norrish_k {
+                None => "no K (1 point)".into(),
+                Some(k) if c.norrish_k_at_limit() => {
+                    format!("K {k:.2} (at its limit: check the points)")
+                }
+                Some(k) => format!("K {k:.2}"),
+            };
             format!(
                 "{:.1} g/mol, {k}, sucrose eq. {:.2}, rms {:.3} K. Enter saves it.",
                 c.molar_mass_g_mol, c.sucrose_equivalent, c.rms_residual_k
