@@ -152,10 +152,34 @@ fn least_relaxation(
     let res = resolution(problem, &c);
     let mut best: Option<f64> = None;
     for extreme in extremes(problem, &c) {
-        if !holds(extreme)? {
+        let span = extreme - c.bound;
+        if span == 0.0 {
             continue;
         }
-        let (mut bad, mut good) = (c.bound, extreme);
+        // Outward from the bound in doubling steps, so that the nearest value that
+        // holds is found even where values farther out do not hold again (a
+        // freezing point that must move a little colder cannot move to -60 °C).
+        let (mut bad, mut found) = (c.bound, None);
+        let mut step = res;
+        loop {
+            let at = if step >= span.abs() {
+                extreme
+            } else {
+                c.bound + span.signum() * step
+            };
+            if holds(at)? {
+                found = Some(at);
+                break;
+            }
+            if at == extreme {
+                break;
+            }
+            bad = at;
+            step *= 2.0;
+        }
+        let Some(mut good) = found else {
+            continue;
+        };
         for _ in 0..MAX_STEPS {
             if (good - bad).abs() <= res {
                 break;

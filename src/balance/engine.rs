@@ -21,6 +21,15 @@ const FLOOR_SHARE: f64 = 1e-3;
 /// violation is below this many steps ([`Figure::step`]): a thousandth of a
 /// percentage point, of a kelvin.
 pub(crate) const FEASIBLE_VIOLATION: f64 = 0.01;
+/// The largest total violation of the programme's rows (in steps of their
+/// figures; half a step is a nonlinear figure's tolerance) at which an answer
+/// found by the elastic solve may still count as balanced.
+pub(crate) const NEARLY_HOLDS: f64 = 0.1;
+/// How much further than its least violation (in steps of its figure) a target
+/// that cannot hold may miss in the nearest recipe shown, when the rows miss by
+/// more than [`NEARLY_HOLDS`], to keep that recipe near the one asked about.
+/// Half a step is the tolerance of the nonlinear figures.
+const NEAR_STEPS: f64 = 0.5;
 /// The step of a line rule in g, as a share of the reference mass.
 const RULE_STEP_SHARE: f64 = 1e-3;
 /// The step of a line rule on a share (percentage points).
@@ -294,13 +303,23 @@ impl<'a, 'c> Problem<'a, 'c> {
             Outcome::Solved(s) => s,
             other => return (other, owners),
         };
-        // Relax each row by its least violation (plus a millionth of a step).
+        // Relax each row by its least violation plus a millionth of a step. When
+        // the rows truly cannot hold, a row that misses gets up to NEAR_STEPS
+        // more, so that the goal has room and the nearest recipe stays near the
+        // one asked about (the least violation alone is often reached only by an
+        // odd, tiny batch).
+        let cannot_hold = least.total_violation > NEARLY_HOLDS;
         let mut relaxed = Vec::new();
         let mut relaxed_owners = Vec::new();
         for ((pr, v), owner) in rows.iter().zip(&least.violation_per_g).zip(&owners) {
-            let slack = pr
-                .elastic
-                .map_or(0.0, |step| v * (1.0 + 1e-6) + 1e-6 * step);
+            let slack = pr.elastic.map_or(0.0, |step| {
+                let room = if cannot_hold && *v > 1e-6 * step {
+                    NEAR_STEPS
+                } else {
+                    0.0
+                };
+                v * (1.0 + 1e-6) + (1e-6 + room) * step
+            });
             let shifted = |sense, by: f64| ProgramRow {
                 row: Row {
                     coef: pr.row.coef.iter().map(|c| c + by).collect(),

@@ -249,7 +249,12 @@ fn run(recipe: &Recipe, catalog: &Catalog, request: &Request) -> Result<Balance,
         return Ok(finish(ans, Status::Infeasible, None, conflicts));
     };
     let ans = answer(&problem, recipe, catalog, &near.solution.x_g)?;
-    if ans.all_met() {
+    // Balanced only when the programme itself nearly holds (the hard solve
+    // stumbled, or missed a tolerance the elastic one meets): rows that cannot
+    // hold by a fifth of a tolerance or more are a conflict even when the nearest
+    // recipe lands within each figure's tolerance (a freezing point only
+    // approached as one line grows without end).
+    if near.solution.total_violation <= engine::NEARLY_HOLDS && ans.all_met() {
         return Ok(finish(ans, Status::Balanced, Some(&near), Vec::new()));
     }
     let mut conflicts = conflicts::explain(&problem, &near.lin, &near.solution.x_g, &all)?;
@@ -288,6 +293,18 @@ fn build(
         mut lines,
         mut targets,
     } = ans;
+    if status == Status::Infeasible {
+        // A target in a conflict is met only inside its range itself: the
+        // tolerance absorbs the solver's rounding, not a target that cannot hold.
+        for (t, asked) in targets.iter_mut().zip(&problem.targets) {
+            if conflicts.iter().any(|c| c.targets.contains(&t.name)) {
+                let eps = |b: f64| asked.figure.tolerance_at(b) / 10.0;
+                t.met = t.value.is_some_and(|v| {
+                    t.low.is_none_or(|l| v >= l - eps(l)) && t.high.is_none_or(|h| v <= h + eps(h))
+                });
+            }
+        }
+    }
     let (cost, cost_per_kg) = cost::batch_cost(&lines, &request.prices_per_kg);
     if let (Objective::Cost, Status::Balanced, Some(solved)) = (request.objective, status, solved) {
         cost::shadow_prices(problem, solved, &mut targets);

@@ -59,7 +59,9 @@ pub struct TargetResult {
     /// The value in a fresh full analysis of the answer; `None` when the model
     /// has none (no freezing point above -60 °C, say).
     pub value: Option<f64>,
-    /// Whether the value lies in `[low, high]` within the figure's tolerance.
+    /// Whether the value lies in `[low, high]` within the figure's tolerance. In
+    /// an answer that is not balanced, a target named in a conflict is met only
+    /// when its value lies in the range itself (to a tenth of that tolerance).
     pub met: bool,
     /// Whether the value sits at one of the bounds (within tolerance), so that
     /// the target shapes the answer.

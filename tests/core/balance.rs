@@ -579,7 +579,7 @@ fn freezing_point_and_serving_temperature_are_met_by_the_full_model() {
     let r = pier_gelato();
     let request = Request::with_targets(vec![
         Target::value(Figure::FreezingPointC, -2.8),
-        Target::range(Figure::ServingTempC, -12.5, -11.5),
+        Target::range(Figure::ServingTempC, -12.0, -11.2),
         Target::range(Figure::TotalSolidsPct, 32.0, 40.0),
     ]);
     let b = balance(&r, Catalog::builtin(), &request).unwrap();
@@ -587,6 +587,53 @@ fn freezing_point_and_serving_temperature_are_met_by_the_full_model() {
     let a = analysis_of(&r, &b);
     assert!((a.freezing_point_c.unwrap() + 2.8).abs() <= 0.05);
     assert_targets_met(&request, &b, &a);
+    // A batch still, not a spoonful of stabiliser: within half and twice the start.
+    let total: f64 = b.lines.iter().map(|l| l.g).sum();
+    assert!((500.0..2000.0).contains(&total), "{total} g");
+}
+
+#[test]
+fn a_serving_temperature_just_out_of_reach_gets_advice_near_what_was_asked() {
+    // With the freezing point held at -2.8 °C this gelato's serving temperature
+    // reaches about -11.3 °C, not -11.5 °C. The advice must be the nearest change
+    // that holds (a few hundredths of a kelvin), and each, applied alone, balances.
+    let r = pier_gelato();
+    let request = Request::with_targets(vec![
+        Target::value(Figure::FreezingPointC, -2.8),
+        Target::range(Figure::ServingTempC, -12.5, -11.5),
+        Target::range(Figure::TotalSolidsPct, 32.0, 40.0),
+    ]);
+    let b = balance(&r, Catalog::builtin(), &request).unwrap();
+    assert_eq!(b.status, Status::Infeasible);
+    let c = &b.conflicts[0];
+    let number_after_to = |text: &str| -> f64 {
+        text.split(" to ")
+            .nth(1)
+            .and_then(|s| s.split_whitespace().next())
+            .and_then(|s| s.parse().ok())
+            .unwrap_or_else(|| panic!("a number in {text}"))
+    };
+    for (name, text) in c.targets.iter().zip(&c.relax) {
+        let v = number_after_to(text);
+        let mut relaxed = request.clone();
+        match name.as_str() {
+            "freezing_point_c" => {
+                assert!((-2.95..-2.8).contains(&v), "{text}");
+                relaxed.targets[0] = Target::value(Figure::FreezingPointC, v);
+            }
+            "serving_temp_c" => {
+                assert!((-11.5..-11.2).contains(&v), "{text}");
+                relaxed.targets[1].high = Some(v);
+            }
+            "total_solids_pct" => relaxed.targets[2].high = Some(v),
+            other => panic!("{other} in {c:?}"),
+        }
+        let again = balance(&r, Catalog::builtin(), &relaxed).unwrap();
+        assert_eq!(again.status, Status::Balanced, "{text}");
+    }
+    // The nearest recipe shown is still a batch of about the size asked about.
+    let total: f64 = b.lines.iter().map(|l| l.g).sum();
+    assert!((500.0..2000.0).contains(&total), "{total} g");
 }
 
 #[test]
@@ -614,6 +661,35 @@ fn fat_of_twenty_percent_from_milk_and_sugar_is_a_conflict_naming_fat() {
     // The nearest makeable recipe is marked: fat unmet, the sugar range met.
     let t: BTreeMap<&str, _> = b.targets.iter().map(|t| (t.name.as_str(), t)).collect();
     assert!(!t["fat_pct"].met && t["sugars_pct"].met);
+}
+
+#[test]
+fn a_freezing_point_only_approached_without_end_is_a_conflict_not_a_balance() {
+    // Cow's milk freezes near -0.52 °C (its cryoscopic point; from memory, -0.512
+    // to -0.550 °C in dairy surveys), and the model's whole milk at -0.54 °C: with
+    // the sugar held, more milk only brings the mix toward that, never to -0.5 °C. Within the 0.05 K
+    // tolerance of a reported figure is not enough when the target's own row
+    // cannot hold: the answer must say so, not call it met.
+    let r = recipe(
+        "Milk ice",
+        vec![line("whole-milk", 800.0), line("sucrose", 200.0)],
+    );
+    let mut request = Request::with_targets(vec![Target::range(Figure::FreezingPointC, -0.5, 0.0)]);
+    request.vary = Some(vec!["whole-milk".into()]);
+    let b = balance(&r, Catalog::builtin(), &request).unwrap();
+    assert_eq!(b.status, Status::Infeasible, "{:?}", b.targets);
+    assert_eq!(b.conflicts[0].targets, vec!["freezing_point_c".to_string()]);
+    let fp = &b.targets[0];
+    assert!(
+        fp.value.is_some_and(|v| v < -0.5) && !fp.met,
+        "a value outside the range asked is not met: {fp:?}"
+    );
+    let advice = &b.conflicts[0].relax[0];
+    assert!(
+        advice.starts_with("lower the minimum for the freezing point to -0.5"),
+        // (-0.54 or -0.55: the model's milk, rounded away from the bound)
+        "{advice}"
+    );
 }
 
 #[test]
