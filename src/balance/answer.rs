@@ -10,7 +10,7 @@ use crate::model::{Amount, Recipe};
 use super::BalanceError;
 use super::engine::Problem;
 use super::result::{LineResult, TargetResult};
-use super::rows::{RuleKind, Soft};
+use super::rows::{Lin, RuleKind, Side, Soft};
 use crate::model::balancing::Figure;
 
 /// The checked answer.
@@ -32,9 +32,10 @@ impl Answer {
     }
 }
 
-/// Masses below this share of the reference mass (1 mg per kg) are taken as
-/// zero: an interior-point answer only approaches a bound.
-const ZERO_SHARE: f64 = 1e-6;
+/// Masses below this share of the batch (10 mg per kg, far below what a kitchen
+/// scale reads) are taken as zero: an interior-point answer only approaches a
+/// bound, and a line left out must read 0 g and carry its reduced cost.
+const ZERO_SHARE: f64 = 1e-5;
 
 /// Builds and checks the answer for line masses `x_g` (g). `catalog` already
 /// holds the recipe's own items.
@@ -45,6 +46,7 @@ pub(crate) fn answer(
     x_g: &[f64],
 ) -> Result<Answer, BalanceError> {
     let mut out = recipe.clone();
+    let batch_g = problem.mass_ref_g.max(x_g.iter().map(|x| x.max(0.0)).sum());
     for (j, line) in out.lines.iter_mut().enumerate() {
         let model_line = &problem.model.lines[j];
         let mut fixed = false;
@@ -65,7 +67,7 @@ pub(crate) fn answer(
             continue;
         }
         let mut g = x_g[j].max(0.0);
-        if g < ZERO_SHARE * problem.mass_ref_g {
+        if g < ZERO_SHARE * batch_g {
             g = 0.0;
         }
         let g = g.clamp(lo, hi.max(lo));
@@ -104,12 +106,27 @@ pub(crate) fn answer(
             reduced_cost_per_kg: None,
         })
         .collect();
+    // Which bounds every mix meets (a share of at least 0 %): a value sitting
+    // there does not bind. Only figures without the volume are judged, whose
+    // rows do not depend on its tangent.
+    let no_volume = Lin::default();
+    let builder = problem.builder(&no_volume);
+    let always_holds = |index: usize, side_of: fn(Side) -> bool| {
+        !problem.targets[index].figure.uses_volume()
+            && problem.constraints.iter().any(|c| {
+                matches!(c.soft, Soft::Target { index: i, side } if i == index && side_of(side))
+                    && builder.rows(c.soft, c.bound).is_empty()
+            })
+    };
     let targets = problem
         .targets
         .iter()
         .zip(&problem.implied)
-        .map(|(t, implied)| {
+        .enumerate()
+        .map(|(index, (t, implied))| {
             let value = analysis.as_ref().and_then(|a| t.figure.value_in(a));
+            let low_holds = always_holds(index, |s| s == Side::Low);
+            let high_holds = always_holds(index, |s| s == Side::High);
             let near = |bound: Option<f64>, v: f64| {
                 bound.is_some_and(|b| (v - b).abs() <= t.figure.tolerance_at(b))
             };
@@ -117,7 +134,8 @@ pub(crate) fn answer(
                 Some(v) => {
                     let above = t.low.is_none_or(|l| v >= l - t.figure.tolerance_at(l));
                     let below = t.high.is_none_or(|h| v <= h + t.figure.tolerance_at(h));
-                    (above && below, near(t.low, v) || near(t.high, v))
+                    let binds = (near(t.low, v) && !low_holds) || (near(t.high, v) && !high_holds);
+                    (above && below, binds)
                 }
                 None => (false, false),
             };

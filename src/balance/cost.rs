@@ -38,19 +38,25 @@ pub(crate) fn shadow_prices(problem: &Problem, solved: &Solved, targets: &mut [T
             continue;
         }
         let value = t.value.unwrap_or(f64::NAN);
-        // The side that binds: the value's, or the nearer bound of a range.
+        let builder = problem.builder(&solved.lin);
+        // The side that binds: the value's, or the nearer bound of a range. A
+        // bound every mix meets (a share of at least 0 %) has no row, and no price.
         let mut best: Option<(f64, f64)> = None;
         for (k, c) in problem.constraints.iter().enumerate() {
             let Soft::Target { index: i, side } = c.soft else {
                 continue;
             };
-            if i != index {
+            if i != index || builder.rows(c.soft, c.bound).is_empty() {
                 continue;
             }
             let distance = match side {
                 Side::Value => 0.0,
                 _ => (value - c.bound).abs(),
             };
+            if distance > problem.targets[index].figure.tolerance_at(c.bound) {
+                // Not the bound the value sits at.
+                continue;
+            }
             if best.is_none_or(|(d, _)| distance < d) {
                 best = Some((distance, problem.bound_derivative(solved, k)));
             }

@@ -48,6 +48,17 @@ pub(crate) struct Row {
 }
 
 impl Row {
+    /// Whether every mix of non-negative masses meets the row.
+    pub fn always_holds(&self) -> bool {
+        let at_least_zero = self.constant >= 0.0 && self.coef.iter().all(|c| *c >= 0.0);
+        let at_most_zero = self.constant <= 0.0 && self.coef.iter().all(|c| *c <= 0.0);
+        match self.sense {
+            Sense::Ge => at_least_zero,
+            Sense::Le => at_most_zero,
+            Sense::Eq => false,
+        }
+    }
+
     /// coef·x + constant.
     pub fn value(&self, x: &[f64]) -> f64 {
         self.coef.iter().zip(x).map(|(c, x)| c * x).sum::<f64>() + self.constant
@@ -197,7 +208,16 @@ impl RowBuilder<'_, '_> {
     }
 
     /// The rows of one constraint with bound `theta`; empty when it always holds.
+    /// A row that every non-negative mix meets (a share of at least 0 %, say) is
+    /// left out: it would only share the multiplier of x ≥ 0 with that bound, and
+    /// halve the reduced cost of a line left at zero.
     pub fn rows(&self, soft: Soft, theta: f64) -> Vec<Row> {
+        let mut rows = self.all_rows(soft, theta);
+        rows.retain(|r| !r.always_holds());
+        rows
+    }
+
+    fn all_rows(&self, soft: Soft, theta: f64) -> Vec<Row> {
         match soft {
             Soft::Target { index, side } => {
                 let figure = &self.targets[index].figure;
@@ -262,11 +282,15 @@ impl RowBuilder<'_, '_> {
     /// differences in θ (units of the row per unit of the bound).
     pub fn d_rows_d_bound(&self, soft: Soft, theta: f64, x: &[f64]) -> Vec<f64> {
         let h = 1e-5 * theta.abs().max(1e-2);
-        let up = self.rows(soft, theta + h);
-        let down = self.rows(soft, theta - h);
-        up.iter()
-            .zip(&down)
-            .map(|(u, d)| (u.value(x) - d.value(x)) / (2.0 * h))
+        // Row by row as `rows` gives them at theta (the same rows either side,
+        // even where one side would always hold).
+        let at = self.all_rows(soft, theta);
+        let up = self.all_rows(soft, theta + h);
+        let down = self.all_rows(soft, theta - h);
+        at.iter()
+            .zip(up.iter().zip(&down))
+            .filter(|(r, _)| !r.always_holds())
+            .map(|(_, (u, d))| (u.value(x) - d.value(x)) / (2.0 * h))
             .collect()
     }
 }

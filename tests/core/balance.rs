@@ -360,6 +360,78 @@ fn least_cost_shadow_prices_and_reduced_costs_match_an_independent_solver() {
     }
 }
 
+#[test]
+fn an_unused_line_of_a_scaled_least_cost_batch_is_zero_with_its_reduced_cost() {
+    // Demo prices (invented); the check is against the engine itself re-solved:
+    // a line left out must be exactly 0 g (not an interior-point crumb), carry a
+    // reduced cost, and come in once its price falls by more than that, not less.
+    let r = pier_gelato();
+    let prices: BTreeMap<String, f64> = [
+        ("whole-milk", 1.1),
+        ("heavy-cream", 4.2),
+        ("skim-milk-powder", 3.9),
+        ("sucrose", 1.15),
+        ("dextrose-monohydrate", 1.6),
+        ("stabiliser-blend", 25.0),
+    ]
+    .into_iter()
+    .map(|(id, p)| (id.to_string(), p))
+    .collect();
+    let mut request = Request::with_targets(vec![
+        Target::value(Figure::MassG, 5000.0),
+        Target::range(Figure::FatPct, 6.0, 9.0),
+        Target::range(Figure::MsnfPct, 9.0, 11.0),
+        Target::range(Figure::TotalSolidsPct, 34.0, 38.0),
+        Target::range(Figure::FrozenAt { temp_c: -12.0 }, 0.65, 0.70),
+        Target::range(Figure::SolutePct("glucose".into()), 0.0, 5.0),
+    ]);
+    request.objective = Objective::Cost;
+    request.prices_per_kg = prices;
+    request.rules.insert(
+        "stabiliser-blend".into(),
+        LineRule {
+            fixed: true,
+            ..LineRule::default()
+        },
+    );
+    let b = balance(&r, Catalog::builtin(), &request).unwrap();
+    assert_eq!(b.status, Status::Balanced, "{:?}", b.conflicts);
+    let dextrose = b
+        .lines
+        .iter()
+        .find(|l| l.ingredient == "dextrose-monohydrate")
+        .unwrap();
+    assert_eq!(dextrose.g, 0.0, "left out entirely: {dextrose:?}");
+    // Glucose sits at 0 %, a bound every mix meets: it does not bind, has no price.
+    let glucose = b
+        .targets
+        .iter()
+        .find(|t| t.name == "solutes_pct.glucose")
+        .unwrap();
+    assert!(
+        !glucose.binding && glucose.shadow_price.is_none(),
+        "{glucose:?}"
+    );
+    let rc = dextrose
+        .reduced_cost_per_kg
+        .unwrap_or_else(|| panic!("no reduced cost: {dextrose:?}"));
+    assert!(rc > 0.0, "{rc}");
+    let used_at = |price: f64| {
+        let mut cheaper = request.clone();
+        cheaper
+            .prices_per_kg
+            .insert("dextrose-monohydrate".into(), price);
+        let b = balance(&r, Catalog::builtin(), &cheaper).unwrap();
+        b.lines
+            .iter()
+            .find(|l| l.ingredient == "dextrose-monohydrate")
+            .map_or(0.0, |l| l.g)
+    };
+    // 5 % either side of the reduced cost: a margin for the interior-point answer.
+    assert_eq!(used_at(1.6 - 0.95 * rc), 0.0);
+    assert!(used_at(1.6 - 1.05 * rc) > 1.0, "reduced cost {rc} per kg");
+}
+
 // Published case 2: the blending example of the R package limSolve (Soetaert,
 // Van den Meersche & van Oevelen, `Blending`): one kg of feed with at least
 // 80 g of A, 50 g of B, 25 g of C and 5 g of D from two ingredients (40 and
