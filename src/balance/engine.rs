@@ -25,6 +25,15 @@ pub(crate) const FEASIBLE_VIOLATION: f64 = 0.01;
 /// figures; half a step is a nonlinear figure's tolerance) at which an answer
 /// found by the elastic solve may still count as balanced.
 pub(crate) const NEARLY_HOLDS: f64 = 0.1;
+/// A total violation (in steps) too small to be anything but the solver's own
+/// rounding.
+const VANISHING_VIOLATION: f64 = 1e-6;
+/// Where violations are measured (when targets cannot all hold), the batch may
+/// grow to this many times the recipe or the size asked for, and no further: a
+/// target only approached as a line grows without end (a freezing point more milk
+/// only nears, all of the water frozen) then misses by a measurable amount
+/// instead of a vanishing one. Answers that hold are never limited by it.
+const MOST_MASS: f64 = 100.0;
 /// How much further than its least violation (in steps of its figure) a target
 /// that cannot hold may miss in the nearest recipe shown, when the rows miss by
 /// more than [`NEARLY_HOLDS`], to keep that recipe near the one asked about.
@@ -73,6 +82,9 @@ pub(crate) struct Problem<'a, 'c> {
     pub needs_volume: bool,
     /// Reference mass (g).
     pub mass_ref_g: f64,
+    /// Largest batch (g) where violations are measured: [`MOST_MASS`] times the
+    /// larger of the reference mass and the size asked for.
+    pub most_g: f64,
     /// Where the solve starts (g).
     pub start_g: Vec<f64>,
 }
@@ -179,7 +191,21 @@ impl<'a, 'c> Problem<'a, 'c> {
         } else {
             vec![mass_ref_g / model.len().max(1) as f64; model.len()]
         };
+        // The size asked for, in g (a volume at a density of 1.5 g/mL at most:
+        // syrups and mixes are lighter).
+        let size_g = targets
+            .iter()
+            .filter_map(|t| {
+                let v = t.high.or(t.low)?;
+                match t.figure {
+                    Figure::MassG => Some(v),
+                    Figure::VolumeMl => Some(1.5 * v),
+                    _ => None,
+                }
+            })
+            .fold(0.0_f64, f64::max);
         Ok(Problem {
+            most_g: MOST_MASS * mass_ref_g.max(size_g),
             needs_volume: targets.iter().any(|t| t.figure.uses_volume()),
             model,
             targets,
@@ -292,6 +318,7 @@ impl<'a, 'c> Problem<'a, 'c> {
         let program = |rows, goal| Program {
             mass_ref_g: self.mass_ref_g,
             floor_g: FLOOR_SHARE * self.mass_ref_g,
+            most_g: self.most_g,
             rows,
             goal,
             n: self.model.len(),
@@ -308,7 +335,7 @@ impl<'a, 'c> Problem<'a, 'c> {
         // more, so that the goal has room and the nearest recipe stays near the
         // one asked about (the least violation alone is often reached only by an
         // odd, tiny batch).
-        let cannot_hold = least.total_violation > NEARLY_HOLDS;
+        let cannot_hold = least.total_violation > NEARLY_HOLDS || least.at_most_mass;
         let mut relaxed = Vec::new();
         let mut relaxed_owners = Vec::new();
         for ((pr, v), owner) in rows.iter().zip(&least.violation_per_g).zip(&owners) {
@@ -343,6 +370,7 @@ impl<'a, 'c> Problem<'a, 'c> {
         match solve(&program(&relaxed, goal)) {
             Outcome::Solved(mut s) => {
                 s.total_violation = least.total_violation;
+                s.at_most_mass = least.at_most_mass;
                 (Outcome::Solved(s), relaxed_owners)
             }
             // The least violation alone is still an answer.
@@ -405,7 +433,10 @@ impl<'a, 'c> Problem<'a, 'c> {
         let (outcome, _) =
             self.solve_at(lin, which, bounds, Elastic::All, &Goal::Feasibility, x_ref);
         match outcome {
-            Outcome::Solved(s) => Ok(s.total_violation <= FEASIBLE_VIOLATION),
+            // A violation that only shrinks as the batch grows without end is
+            // not a way for them to hold.
+            Outcome::Solved(s) => Ok(s.total_violation <= FEASIBLE_VIOLATION
+                && !(s.at_most_mass && s.total_violation > VANISHING_VIOLATION)),
             // Elastic rows always admit a point; only the mass floor is hard.
             Outcome::Infeasible => Ok(false),
             Outcome::Failed(why) => Err(BalanceError::Solver(why)),

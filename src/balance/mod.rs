@@ -253,8 +253,12 @@ fn run(recipe: &Recipe, catalog: &Catalog, request: &Request) -> Result<Balance,
     // stumbled, or missed a tolerance the elastic one meets): rows that cannot
     // hold by a fifth of a tolerance or more are a conflict even when the nearest
     // recipe lands within each figure's tolerance (a freezing point only
-    // approached as one line grows without end).
-    if near.solution.total_violation <= engine::NEARLY_HOLDS && ans.all_met() {
+    // approached as one line grows without end, which the least violation
+    // reaches only at the largest batch allowed).
+    if near.solution.total_violation <= engine::NEARLY_HOLDS
+        && !near.solution.at_most_mass
+        && ans.all_met()
+    {
         return Ok(finish(ans, Status::Balanced, Some(&near), Vec::new()));
     }
     let mut conflicts = conflicts::explain(&problem, &near.lin, &near.solution.x_g, &all)?;

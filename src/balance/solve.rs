@@ -63,6 +63,9 @@ pub(crate) struct Program<'a> {
     pub mass_ref_g: f64,
     /// Least total mass (g), always imposed.
     pub floor_g: f64,
+    /// Largest total mass (g), imposed where violations are measured (the space
+    /// of shares), so that a violation cannot vanish by a batch without end.
+    pub most_g: f64,
     /// The rows.
     pub rows: &'a [ProgramRow],
     /// The objective; elastic rows need [`Goal::Feasibility`] and are solved
@@ -83,6 +86,11 @@ pub(crate) struct Solution {
     pub dual: Vec<f64>,
     /// Per line: the multiplier of x ≥ 0 (objective units per g), the reduced cost.
     pub reduced_per_g: Vec<f64>,
+    /// Whether the least violation was reached only at (or near) the largest
+    /// batch the programme allows: the violation shrinks as the batch grows
+    /// without end, so the rows can never quite hold (a freezing point that more
+    /// milk only approaches). Set by solves in the space of shares.
+    pub at_most_mass: bool,
 }
 
 /// How a programme ended.
@@ -123,9 +131,6 @@ fn csc(rows: usize, cols: usize, by_col: &[Vec<(usize, f64)>]) -> CscMatrix<f64>
     }
     CscMatrix::new(rows, cols, colptr, rowval, nzval)
 }
-
-/// Largest mass (as a multiple of the reference) a share-space solution may have.
-const MOST_MASS: f64 = 1e6;
 
 /// Solves a programme.
 pub(crate) fn solve(p: &Program) -> Outcome {
@@ -220,7 +225,7 @@ pub(crate) fn solve(p: &Program) -> Outcome {
     let mut total = vec![0.0; nv];
     total.iter_mut().take(n).for_each(|v| *v = 1.0);
     if shares {
-        // Σz = 1, and floor ≤ Σx ≤ MOST_MASS·M: 1/MOST_MASS ≤ u' ≤ M/floor.
+        // Σz = 1, and floor ≤ Σx ≤ most: M/most ≤ u' ≤ M/floor.
         eqs.push(ARow {
             a: total,
             b: 1.0,
@@ -228,7 +233,7 @@ pub(crate) fn solve(p: &Program) -> Outcome {
         });
         ineqs.push(ARow {
             a: unit_row(n, -1.0),
-            b: -1.0 / MOST_MASS,
+            b: -m_ref / p.most_g,
             origin: Origin::Other,
         });
         ineqs.push(ARow {
@@ -335,7 +340,7 @@ pub(crate) fn solve(p: &Program) -> Outcome {
         other => return Outcome::Failed(format!("the solver stopped: {other:?}")),
     }
     let x_g: Vec<f64> = if shares {
-        let u = sol.x[n].max(1.0 / MOST_MASS);
+        let u = sol.x[n].max(m_ref / p.most_g);
         sol.x[..n].iter().map(|z| z * m_ref / u).collect()
     } else {
         sol.x[..n].iter().map(|y| y * m_ref).collect()
@@ -356,6 +361,8 @@ pub(crate) fn solve(p: &Program) -> Outcome {
         violation_per_g: (0..p.rows.len()).map(|k| norms[k] * violation(k)).collect(),
         dual,
         reduced_per_g,
+        // Within 2 % of the largest batch.
+        at_most_mass: shares && sol.x[n] < 1.02 * m_ref / p.most_g,
     })
 }
 
@@ -389,6 +396,7 @@ mod tests {
             n: 2,
             mass_ref_g: 10.0,
             floor_g: 0.01,
+            most_g: 1e6,
             rows: &rows,
             goal: &goal,
         };
@@ -416,6 +424,7 @@ mod tests {
             n: 2,
             mass_ref_g: 1000.0,
             floor_g: 1.0,
+            most_g: 1e6,
             rows: &rows,
             goal: &Goal::Feasibility,
         };

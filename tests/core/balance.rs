@@ -765,6 +765,41 @@ fn a_freezing_point_only_approached_without_end_is_a_conflict_not_a_balance() {
 }
 
 #[test]
+fn all_of_the_water_frozen_is_a_conflict_not_an_ocean() {
+    // A mix with anything dissolved in it never freezes whole: some water stays
+    // liquid at any temperature above the eutectic (Raoult; the frozen share only
+    // approaches 1 as the solutes are diluted without end). Found by the CLI
+    // property test: it came back "balanced" with a billion grams of water.
+    let mut r = pier_gelato();
+    r.lines.push(line("water", 25.0));
+    let mut request =
+        Request::with_targets(vec![Target::value(Figure::FrozenAt { temp_c: -18.0 }, 1.0)]);
+    // Some dextrose must stay (a batch of nothing but stabiliser, whose gums hold
+    // no water liquid, would be "all frozen" by the model).
+    request.rules.insert(
+        "dextrose-monohydrate".into(),
+        LineRule {
+            min_g: Some(9.0),
+            ..LineRule::default()
+        },
+    );
+    let b = balance(&r, Catalog::builtin(), &request).unwrap();
+    assert_eq!(b.status, Status::Infeasible, "{:?}", b.lines);
+    // With the dextrose it must keep (without it, a batch of stabiliser alone).
+    assert!(
+        b.conflicts[0]
+            .targets
+            .contains(&"frozen_at.-18".to_string()),
+        "{:?}",
+        b.conflicts
+    );
+    assert!(!b.targets[0].met, "{:?}", b.targets[0]);
+    // The nearest recipe shown is one a kitchen could weigh: not a tank of water.
+    let total: f64 = b.lines.iter().map(|l| l.g).sum();
+    assert!(total < 200_000.0, "{total} g");
+}
+
+#[test]
 fn two_targets_that_clash_are_named_together_with_a_relaxation_each() {
     // Cream and milk: fat of at least 14 % needs cream, whose solids push total
     // solids past 20 %.
