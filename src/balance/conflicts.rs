@@ -214,17 +214,30 @@ fn advice(problem: &Problem, member: usize, found: Option<f64>) -> String {
     let c = problem.constraints[member];
     let name = constraint_name(problem, &c);
     let Some(v) = found else {
+        let what = match c.soft {
+            Soft::Target { index, .. } => {
+                problem.targets[index].figure.label_in(problem.advice_unit)
+            }
+            Soft::Rule { .. } => name,
+        };
         return format!(
-            "relaxing {name} alone does not resolve this: other targets or rules conflict as well"
+            "relaxing {what} alone does not resolve this: other targets or rules conflict as well"
         );
     };
     match c.soft {
         Soft::Target { index, side } => {
             let figure = &problem.targets[index].figure;
-            let unit = figure.unit();
-            let label = figure.label();
-            let new = with_unit(&round_away(v, c.bound, figure.decimals()), unit);
-            let asked = with_unit(&trim_number(c.bound), unit);
+            let shown = problem.advice_unit;
+            let label = figure.label_in(shown);
+            // Temperatures in the unit asked (a monotonic map, so rounding away
+            // from the bound stays on the safe side).
+            let (v, bound, unit) = if figure.is_temperature() {
+                (shown.from_c(v), shown.from_c(c.bound), shown.symbol())
+            } else {
+                (v, c.bound, figure.unit())
+            };
+            let new = with_unit(&round_away(v, bound, figure.decimals()), unit);
+            let asked = with_unit(&trim_number(bound), unit);
             match side {
                 Side::Low => {
                     format!("lower the minimum for {label} to {new} (asked at least {asked})")

@@ -82,6 +82,8 @@ pub(crate) struct Problem<'a, 'c> {
     pub needs_volume: bool,
     /// Reference mass (g).
     pub mass_ref_g: f64,
+    /// The unit of temperatures in the advice of conflicts.
+    pub advice_unit: crate::model::TempUnit,
     /// Largest batch (g) where violations are measured: [`MOST_MASS`] times the
     /// larger of the reference mass and the size asked for.
     pub most_g: f64,
@@ -205,6 +207,7 @@ impl<'a, 'c> Problem<'a, 'c> {
             })
             .fold(0.0_f64, f64::max);
         Ok(Problem {
+            advice_unit: request.advice_unit,
             most_g: MOST_MASS * mass_ref_g.max(size_g),
             needs_volume: targets.iter().any(|t| t.figure.uses_volume()),
             model,

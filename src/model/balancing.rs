@@ -14,7 +14,7 @@ use std::collections::BTreeMap;
 
 use serde::Serialize;
 
-use super::units::trim_number;
+use super::units::{TempUnit, trim_number};
 
 /// A figure of a mix that a target can be set on. Composition figures are mass %
 /// of the mix with the definitions of `crate::analysis::Composition`.
@@ -145,6 +145,24 @@ impl Figure {
             Figure::FrozenAt { .. } => "",
             _ => "%",
         }
+    }
+
+    /// What a maker calls it, with any temperature in its name in `unit` ("the
+    /// frozen share at 10.4 °F").
+    pub fn label_in(&self, unit: TempUnit) -> String {
+        match self {
+            Figure::FrozenAt { temp_c } => format!(
+                "the frozen share at {} {}",
+                trim_number(unit.from_c(*temp_c)),
+                unit.symbol()
+            ),
+            _ => self.label(),
+        }
+    }
+
+    /// Whether the figure is a temperature (its values are °C).
+    pub fn is_temperature(&self) -> bool {
+        matches!(self, Figure::FreezingPointC | Figure::ServingTempC)
     }
 
     /// What a maker calls it, for plain-text advice ("fat", "the freezing point").
@@ -567,6 +585,9 @@ pub struct Request {
     /// every line with [`Objective::Cost`]; with all lines priced the cost is also
     /// reported under [`Objective::Nearest`].
     pub prices_per_kg: BTreeMap<String, f64>,
+    /// The unit of temperatures in the plain-text advice of a conflict (°C unless
+    /// a workspace set to °F asks). Targets, files and JSON figures stay in °C.
+    pub advice_unit: TempUnit,
 }
 
 impl Request {

@@ -596,6 +596,15 @@ fn a_liqueur_hits_strength_sugar_and_volume_at_once() {
 // ---------------------------------------------------------------------------
 // Frozen desserts.
 
+/// The number in a relaxation's advice: "raise the maximum for fat to 12.5 % (…)".
+fn number_after_to(text: &str) -> f64 {
+    text.split(" to ")
+        .nth(1)
+        .and_then(|s| s.split_whitespace().next())
+        .and_then(|s| s.parse().ok())
+        .unwrap_or_else(|| panic!("a number in {text}"))
+}
+
 fn pier_gelato() -> Recipe {
     let mut r = recipe(
         "Pier gelato",
@@ -678,13 +687,6 @@ fn a_serving_temperature_just_out_of_reach_gets_advice_near_what_was_asked() {
     let b = balance(&r, Catalog::builtin(), &request).unwrap();
     assert_eq!(b.status, Status::Infeasible);
     let c = &b.conflicts[0];
-    let number_after_to = |text: &str| -> f64 {
-        text.split(" to ")
-            .nth(1)
-            .and_then(|s| s.split_whitespace().next())
-            .and_then(|s| s.parse().ok())
-            .unwrap_or_else(|| panic!("a number in {text}"))
-    };
     for (name, text) in c.targets.iter().zip(&c.relax) {
         let v = number_after_to(text);
         let mut relaxed = request.clone();
@@ -765,6 +767,35 @@ fn a_freezing_point_only_approached_without_end_is_a_conflict_not_a_balance() {
 }
 
 #[test]
+fn conflict_advice_speaks_fahrenheit_when_asked() {
+    // The same milk case, advice for a kitchen that reads °F: -0.5 °C is 31.1 °F
+    // (°F = °C × 9/5 + 32, NIST SP 811 appendix B); the figure names stay in °C
+    // (they are the file's keys), the words and numbers follow the unit.
+    let r = recipe(
+        "Milk ice",
+        vec![line("whole-milk", 800.0), line("sucrose", 200.0)],
+    );
+    let mut request = Request::with_targets(vec![
+        Target::range(Figure::FreezingPointC, -0.5, 0.0),
+        Target::at_most(Figure::FrozenAt { temp_c: -12.0 }, 0.9),
+    ]);
+    request.vary = Some(vec!["whole-milk".into()]);
+    let celsius = balance(&r, Catalog::builtin(), &request).unwrap();
+    request.advice_unit = gelu::model::TempUnit::Fahrenheit;
+    let fahrenheit = balance(&r, Catalog::builtin(), &request).unwrap();
+    assert_eq!(fahrenheit.status, Status::Infeasible);
+    let c = &celsius.conflicts[0].relax[0];
+    let f = &fahrenheit.conflicts[0].relax[0];
+    assert!(c.contains("°C (asked at least -0.5 °C)"), "{c}");
+    assert!(f.contains("°F (asked at least 31.1 °F)"), "{f}");
+    // The same relaxation, rounded away from the bound in each unit (0.01 of a degree).
+    let (in_c, in_f) = (number_after_to(c), number_after_to(f));
+    assert!((in_c * 9.0 / 5.0 + 32.0 - in_f).abs() < 0.03, "{c} / {f}");
+    // The answer itself is the same whatever the words.
+    assert_eq!(celsius.lines, fahrenheit.lines);
+}
+
+#[test]
 fn all_of_the_water_frozen_is_a_conflict_not_an_ocean() {
     // A mix with anything dissolved in it never freezes whole: some water stays
     // liquid at any temperature above the eutectic (Raoult; the frozen share only
@@ -835,12 +866,7 @@ fn two_targets_that_clash_are_named_together_with_a_relaxation_each() {
     );
     // Each relaxation, applied alone, balances.
     for (k, text) in c.relax.iter().enumerate() {
-        let v: f64 = text
-            .split(" to ")
-            .nth(1)
-            .and_then(|s| s.split_whitespace().next())
-            .and_then(|s| s.parse().ok())
-            .unwrap_or_else(|| panic!("a number in {text}"));
+        let v = number_after_to(text);
         let mut relaxed = request.clone();
         if k == 0 {
             relaxed.targets[0].low = Some(v);

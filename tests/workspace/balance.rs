@@ -391,6 +391,21 @@ fn with_fahrenheit_settings_the_panel_reads_and_shows_temperatures_in_fahrenheit
         "{:?}",
         names(&s)
     );
+    // A freezing point of 28..30 °F and 60-70 % frozen at 14 °F cannot hold
+    // together here, and the advice speaks °F too.
+    assert_eq!(answer(&s).status, Status::Infeasible);
+    let advice: Vec<String> = answer(&s)
+        .conflicts
+        .iter()
+        .flat_map(|c| c.relax.clone())
+        .collect();
+    assert!(
+        advice
+            .iter()
+            .any(|a| a.contains("the freezing point to") && a.contains("(asked at least 28 °F)")),
+        "{advice:?}"
+    );
+    assert!(advice.iter().all(|a| !a.contains("°C")), "{advice:?}");
     // Editing the cabinet share keeps its temperature.
     to_target(&mut s, "frozen_at.-13");
     cmd(&mut s, Command::EditBalanceRow);

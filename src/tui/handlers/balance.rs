@@ -123,10 +123,12 @@ fn recipe_for_balancing(state: &State) -> Recipe {
 pub fn solve(state: &mut State) {
     let recipe = recipe_for_balancing(state);
     let prices = state.settings.prices_per_kg.clone();
+    let unit = state.settings.temp_unit;
     let Some(panel) = state.recipe.balance.as_mut() else {
         return;
     };
     let mut request = panel.request.clone();
+    request.advice_unit = unit;
     // The recipe's own prices come first; the batch log's fill the gaps.
     for (id, price) in prices {
         request.prices_per_kg.entry(id).or_insert(price);
