@@ -346,7 +346,7 @@ fn a_distiller_batches_a_liqueur_in_litres_and_reads_its_freezer_behaviour() {
     let edit = std::path::Path::new("edit");
     let mut s = Session::start_with(&db, &[edit, &file], 100, 30, true);
     let screen = s.wait_for(
-        |t| t.contains("Gullrock blackcurrant") && t.contains("In the freezer"),
+        |t| t.contains("Gullrock blackcurrant") && t.contains("Freezer, -18"),
         "the liqueur's key figures",
     );
     // A drink shows strength, proof, sugar and volume; no serving temperature.
@@ -359,7 +359,7 @@ fn a_distiller_batches_a_liqueur_in_litres_and_reads_its_freezer_behaviour() {
         .find(|w| {
             screen
                 .lines()
-                .any(|l| l.contains("In the freezer") && l.contains(w))
+                .any(|l| l.contains("Freezer, -18") && l.contains(w))
         });
     let Some(tier) = tier else {
         panic!("no freezer behaviour on screen:\n{screen}");

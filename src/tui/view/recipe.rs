@@ -119,7 +119,11 @@ fn render_lines(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
 }
 
 fn figure<'a>(theme: Theme, label: &str, value: String, width: u16) -> Line<'a> {
-    let pad = (width as usize).saturating_sub(label.chars().count() + value.chars().count() + 2);
+    // At least one space: a row too long for the panel wraps between words
+    // instead of running the label into its value.
+    let pad = (width as usize)
+        .saturating_sub(label.chars().count() + value.chars().count() + 2)
+        .max(1);
     Line::from(vec![
         Span::raw(format!("{label}{}", " ".repeat(pad))),
         Span::styled(value, theme.value()),
@@ -251,7 +255,8 @@ fn drink_figures<'a>(state: &State, theme: Theme, a: &Analysis, width: u16) -> V
             ),
             figure(
                 theme,
-                &format!("In the freezer, {}", t.format(a.freezer.temp_c)),
+                // Short enough beside "a few crystals" at 80 columns.
+                &format!("Freezer, {}", t.format(a.freezer.temp_c)),
                 a.freezer_behaviour.words().to_string(),
                 width,
             ),
