@@ -71,7 +71,7 @@ fn comparison_lines(d: &BatchDetailView, t: TempUnit, theme: Theme) -> Vec<Line<
             recomputed = true;
         }
         lines.push(Line::from(format!(
-            "{:<12}{:<5}{:>7}{:>7}{:>7}",
+            "{:<11} {:<5}{:>7}{:>7}{:>7}",
             short_label(c.kind),
             shown_unit(c.kind, t),
             predicted,
@@ -114,12 +114,13 @@ fn comparison_lines(d: &BatchDetailView, t: TempUnit, theme: Theme) -> Vec<Line<
     lines
 }
 
-/// A short name for the comparison table.
+/// A short name for the comparison table (at most 11 characters, so a space
+/// always parts it from the unit).
 fn short_label(kind: MeasurementKind) -> &'static str {
     match kind {
         MeasurementKind::FreezingPointC => "freezing pt",
         MeasurementKind::DrawTempC => "draw temp.",
-        MeasurementKind::ServingTempC => "serving temp",
+        MeasurementKind::ServingTempC => "serve temp.",
         MeasurementKind::MassG => "batch mass",
         other => kind_label(other),
     }
@@ -364,5 +365,23 @@ pub fn measured_text(kind: MeasurementKind, value: f64, unit: TempUnit) -> Strin
         "°C" => unit.format(value),
         "g" => format!("{value:.0} g"),
         other => format!("{} {other}", trim_number((value * 100.0).round() / 100.0)),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn every_short_label_leaves_a_space_before_the_unit() {
+        // The comparison table (kinds with a prediction) gives the label 11
+        // columns and a space.
+        for kind in MeasurementKind::ALL
+            .into_iter()
+            .filter(|k| k.prediction_key().is_some())
+        {
+            let label = short_label(kind);
+            assert!(label.chars().count() <= 11, "{kind:?}: `{label}`");
+        }
     }
 }
