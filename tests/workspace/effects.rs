@@ -418,59 +418,87 @@ fn a_file_leaning_on_an_own_item_opens_and_saves_carrying_it() {
     );
 }
 
+/// `count` batches of the sample recipe whose file name holds `sample`, each
+/// with a freezing point read `offset_k` warmer than predicted, in the log `db`.
+fn measured_batches(db: &std::path::Path, sample: &str, count: usize, offset_k: f64) {
+    use gelu::batch::MeasurementKind;
+    use gelu::batch::plan::{Plan, plan_batch};
+    let mut store = match gelu::store::Store::open(db) {
+        Ok(s) => s,
+        Err(e) => panic!("{e}"),
+    };
+    let Some((name, text)) = gelu::samples::SAMPLE_RECIPES
+        .iter()
+        .find(|(n, _)| n.contains(sample))
+    else {
+        panic!("the {sample} sample");
+    };
+    let recipe = match gelu::recipe_file::parse_recipe(std::path::Path::new(name), text) {
+        Ok(r) => r,
+        Err(e) => panic!("{e}"),
+    };
+    for _ in 0..count {
+        let new = plan_batch(
+            &Plan {
+                recipe: &recipe,
+                recipe_text: text,
+                size: gelu::model::Amount::Grams(5000.0),
+                operator: "RW",
+                lots: &[],
+                note: None,
+                made_at: gelu::clock::now(),
+            },
+            gelu::catalog::Catalog::builtin(),
+            &gelu::analysis::Options::default(),
+        );
+        let b = match new.map(|n| store.new_batch(&n)) {
+            Ok(Ok(b)) => b,
+            other => panic!("{other:?}"),
+        };
+        let p = b.prediction["freezing_point_c"]
+            .as_f64()
+            .unwrap_or(f64::NAN);
+        if let Err(e) = store.add_measurements(
+            &b.code,
+            &[(MeasurementKind::FreezingPointC, p + offset_k)],
+            "RW",
+            None,
+        ) {
+            panic!("{e}");
+        }
+    }
+}
+
+#[test]
+fn a_correction_with_nothing_to_fit_says_which_batches_it_looked_at() {
+    // Gelato batches measured, the editor on the house vanilla (an ice cream): a
+    // correction here would be for ice creams, and there are none.
+    let dir = tempdir();
+    let db = dir.path().join("log.db");
+    measured_batches(&db, "pier-gelato", 2, 0.1);
+    let (mut s, mut services) = open(&db, None);
+    assert_eq!(s.recipe.recipe.style.as_str(), "ice-cream");
+    run(&mut s, &mut services, Command::ShowBatches);
+    run(&mut s, &mut services, Command::CompareBatches);
+    let Some(view) = s.batches.compare.clone() else {
+        panic!("the compare view opens: {:?}", s.message);
+    };
+    let fp = view
+        .kinds
+        .iter()
+        .find(|k| k.summary.kind == "freezing-point-c");
+    let said = fp.map(|k| format!("{:?}", k.preview)).unwrap_or_default();
+    assert!(fp.is_some_and(|k| k.summary.n == 2), "{said}");
+    assert!(said.contains("no batch of style ice-cream"), "{said}");
+}
+
 #[test]
 fn the_measurement_loop_runs_against_the_log() {
     use gelu::batch::MeasurementKind;
-    use gelu::batch::plan::{Plan, plan_batch};
     let dir = tempdir();
     let db = dir.path().join("log.db");
     // Six vanilla batches whose freezing point read 0.2 K warmer than predicted.
-    {
-        let mut store = match gelu::store::Store::open(&db) {
-            Ok(s) => s,
-            Err(e) => panic!("{e}"),
-        };
-        let Some((name, text)) = gelu::samples::SAMPLE_RECIPES
-            .iter()
-            .find(|(n, _)| n.contains("vanilla"))
-        else {
-            panic!("the vanilla sample");
-        };
-        let recipe = match gelu::recipe_file::parse_recipe(std::path::Path::new(name), text) {
-            Ok(r) => r,
-            Err(e) => panic!("{e}"),
-        };
-        for _ in 0..6 {
-            let new = plan_batch(
-                &Plan {
-                    recipe: &recipe,
-                    recipe_text: text,
-                    size: gelu::model::Amount::Grams(5000.0),
-                    operator: "RW",
-                    lots: &[],
-                    note: None,
-                    made_at: gelu::clock::now(),
-                },
-                gelu::catalog::Catalog::builtin(),
-                &gelu::analysis::Options::default(),
-            );
-            let b = match new.map(|n| store.new_batch(&n)) {
-                Ok(Ok(b)) => b,
-                other => panic!("{other:?}"),
-            };
-            let p = b.prediction["freezing_point_c"]
-                .as_f64()
-                .unwrap_or(f64::NAN);
-            if let Err(e) = store.add_measurements(
-                &b.code,
-                &[(MeasurementKind::FreezingPointC, p + 0.2)],
-                "RW",
-                None,
-            ) {
-                panic!("{e}");
-            }
-        }
-    }
+    measured_batches(&db, "vanilla", 6, 0.2);
     let (mut s, mut services) = open(&db, None);
     s.settings.operator = "RW".into();
     // An ingredient characterised in the form is saved into the log.

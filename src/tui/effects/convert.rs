@@ -5,11 +5,11 @@
 use crate::batch::BatchFilter;
 use crate::batch::compare::{Setting, comparisons, fit_for, scope_batches, with_corrections};
 use crate::batch::{Batch, BatchSummary};
-use crate::measure::{DRAW_FROZEN_FRACTION_SETTING, summarise};
+use crate::measure::{CalibrationError, DRAW_FROZEN_FRACTION_SETTING, summarise};
 use crate::model::time::{DayEnd, parse_date_bound};
 use crate::model::{Ingredient, Solute};
 use crate::recipe_file::{own_item_definition, own_items_in};
-use crate::store::{CustomItem, SYNC_URL_KEY, Store};
+use crate::store::{CustomItem, SYNC_URL_KEY, Store, scope_words};
 
 use super::super::state::{
     BatchDetailView, BatchRow, CompareRequest, CompareView, KindView, MeasurementRow, OwnLibrary,
@@ -158,9 +158,17 @@ pub fn compare_view(store: &Store, request: CompareRequest) -> anyhow::Result<Co
         .into_iter()
         .map(|summary| {
             let preview = match &request.scope {
-                Some(scope) => {
-                    fit_for(&summary.kind, scope, &scope_pairs).map_err(|e| e.to_string())
-                }
+                Some(scope) => fit_for(&summary.kind, scope, &scope_pairs).map_err(|e| match e {
+                    // Say which batches were looked at: the scope is the recipe the
+                    // list shows, else the style of the recipe in the editor.
+                    CalibrationError::NoBatches { kind } => format!(
+                        "no batch of {} has a measured {kind} (a correction here is for the \
+                         recipe the list is filtered on, else for the style of the recipe in \
+                         the editor)",
+                        scope_words(scope)
+                    ),
+                    other => other.to_string(),
+                }),
                 None => Err("no recipe or style to calibrate for".to_string()),
             };
             let in_force = log
