@@ -638,8 +638,14 @@ fn date_and_text_filters_are_checked_then_reload() {
 #[test]
 fn starting_a_batch_sends_size_operator_and_lots() {
     let mut s = loaded_state();
-    cmd(&mut s, Command::StartBatch);
+    let effects = cmd(&mut s, Command::StartBatch);
     assert_eq!(s.screen, Screen::Batches);
+    // The batch log behind the form is read, and where it stands with the hub.
+    assert!(
+        effects.iter().any(|e| matches!(e, Effect::LoadBatches(_)))
+            && effects.contains(&Effect::LoadSyncState),
+        "{effects:?}"
+    );
     let Some(Overlay::Form(f)) = &s.overlay else {
         panic!("batch form expected");
     };

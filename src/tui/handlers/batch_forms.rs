@@ -14,11 +14,13 @@ use crate::model::units::{
     G_PER_OZ, format_volume, parse_mass, parse_number, parse_temp, trim_number,
 };
 
-/// Opens the form that records a batch of the recipe in the editor.
-pub fn open_batch_form(state: &mut State) {
+/// Opens the form that records a batch of the recipe in the editor, over the
+/// batch log (read again when it was not the screen shown: the list and where
+/// the log stands with the hub behind the form are then current).
+pub fn open_batch_form(state: &mut State) -> Vec<Effect> {
     let Ok(analysis) = &state.recipe.analysis else {
         state.warn("The recipe in the editor has nothing to make yet.");
-        return;
+        return Vec::new();
     };
     let size = size_text(analysis, state.settings.mass_unit);
     let mut fields = vec![
@@ -39,8 +41,14 @@ pub fn open_batch_form(state: &mut State) {
         summary: None,
     };
     check_form(state, &mut form);
+    let arriving = state.screen != Screen::Batches;
     state.screen = Screen::Batches;
     state.overlay = Some(Overlay::Form(form));
+    if arriving {
+        super::batches::refresh(state)
+    } else {
+        Vec::new()
+    }
 }
 
 /// A recipe's size as offered for editing: a drink by its volume at 20 °C (as a

@@ -109,7 +109,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
                 text,
             );
         }
-        Command::StartBatch => open_batch_form(state),
+        Command::StartBatch => return open_batch_form(state),
         Command::CompareBatches => return open_comparison(state),
         Command::SyncNow if state.batches.sync.running => state.tell("A sync is already running."),
         Command::SyncNow => {

@@ -138,7 +138,7 @@ pub fn command(state: &mut State, command: Command) -> Vec<Effect> {
                 0,
             ));
         }
-        Command::StartBatch => super::batch_forms::open_batch_form(state),
+        Command::StartBatch => return super::batch_forms::open_batch_form(state),
         Command::OpenBalance => super::balance::open(state),
         Command::ReduceToStrength => super::balance::ask_strength(state),
         _ => {}
