@@ -46,7 +46,7 @@ pub(crate) fn answer(
     x_g: &[f64],
 ) -> Result<Answer, BalanceError> {
     let mut out = recipe.clone();
-    let batch_g = problem.mass_ref_g.max(x_g.iter().map(|x| x.max(0.0)).sum());
+    let batch_g: f64 = x_g.iter().map(|x| x.max(0.0)).sum();
     for (j, line) in out.lines.iter_mut().enumerate() {
         let model_line = &problem.model.lines[j];
         let mut fixed = false;

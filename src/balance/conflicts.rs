@@ -15,7 +15,8 @@ use super::BalanceError;
 use super::engine::Problem;
 use super::result::Conflict;
 use super::rows::{Constraint, Lin, RuleKind, Side, Soft};
-use crate::model::balancing::with_unit;
+use crate::model::TempUnit;
+use crate::model::balancing::{Figure, with_unit};
 use crate::model::units::trim_number;
 
 /// Most conflicting sets reported.
@@ -61,11 +62,14 @@ pub(crate) fn explain(
         )
         .collect();
     let mut sets: Vec<Vec<usize>> = Vec::new();
-    while sets.len() < MAX_CONFLICTS && !problem.feasible(lin, &remaining, &[], x_ref)? {
+    // Where the solver cannot tell, a set is taken as able to hold: no conflict
+    // is named that was not shown, and no member is dropped from one unshown.
+    let holds = |which: &[usize]| problem.feasible(lin, which, &[], x_ref).unwrap_or(true);
+    while sets.len() < MAX_CONFLICTS && !holds(&remaining) {
         let mut set = remaining.clone();
         for k in remaining.iter() {
             let without: Vec<usize> = set.iter().copied().filter(|i| i != k).collect();
-            if !problem.feasible(lin, &without, &[], x_ref)? {
+            if !holds(&without) {
                 set = without;
             }
         }
@@ -138,17 +142,23 @@ fn resolution(problem: &Problem, c: &Constraint) -> f64 {
 }
 
 /// The bound nearest the one asked at which `member` holds together with
-/// `base`; `None` when no value does (another conflict holds as well).
+/// `base`, rounded for the advice to a value that holds; `None` when no value
+/// does (another conflict holds as well).
 fn least_relaxation(
     problem: &Problem,
     lin: &Lin,
     x_ref: &[f64],
     base: &[usize],
     member: usize,
-) -> Result<Option<f64>, BalanceError> {
+) -> Result<Option<Relaxed>, BalanceError> {
     let c = problem.constraints[member];
     let with: Vec<usize> = base.iter().copied().chain([member]).collect();
-    let holds = |bound: f64| problem.feasible(lin, &with, &[(member, bound)], x_ref);
+    // A relaxation is offered only where the solver shows that it holds.
+    let holds = |bound: f64| -> Result<bool, BalanceError> {
+        Ok(problem
+            .feasible(lin, &with, &[(member, bound)], x_ref)
+            .unwrap_or(false))
+    };
     let res = resolution(problem, &c);
     let mut best: Option<f64> = None;
     for extreme in extremes(problem, &c) {
@@ -167,7 +177,10 @@ fn least_relaxation(
             } else {
                 c.bound + span.signum() * step
             };
-            if holds(at)? {
+            // An extreme no mix with anything dissolved reaches (a freezing
+            // point of -0.01 °C, all of the water frozen) holds only where the
+            // rows degenerate: it is no advice.
+            if !(at == extreme && unreachable(problem, &c, at)) && holds(at)? {
                 found = Some(at);
                 break;
             }
@@ -195,25 +208,100 @@ fn least_relaxation(
             best = Some(good);
         }
     }
-    Ok(best)
+    let Some(v) = best else {
+        return Ok(None);
+    };
+    // The advice is read and typed back as printed: round it so that the printed
+    // value holds too (away from the bound asked first; toward it where the values
+    // that hold are a narrow interval), with more decimals if neither does.
+    let shown = shown_unit(problem, &c);
+    let base = decimals(problem, &c);
+    for d in base..=base + 3 {
+        let away = shown.to_c(round_away(shown.from_c(v), shown.from_c(c.bound), d));
+        let toward = shown.to_c(round_toward(shown.from_c(v), shown.from_c(c.bound), d));
+        for candidate in [away, toward] {
+            if holds(candidate)? {
+                return Ok(Some(Relaxed {
+                    value: candidate,
+                    decimals: d,
+                }));
+            }
+        }
+    }
+    Ok(Some(Relaxed {
+        value: v,
+        decimals: base + 3,
+    }))
+}
+
+/// Whether `value` is the warm end of a temperature or a whole frozen share:
+/// a bound only a mix with nothing dissolved could reach.
+fn unreachable(problem: &Problem, c: &Constraint, value: f64) -> bool {
+    match c.soft {
+        Soft::Target { index, .. } => match problem.targets[index].figure {
+            Figure::FreezingPointC | Figure::ServingTempC => value >= -0.01,
+            Figure::FrozenAt { .. } => value >= 1.0,
+            _ => false,
+        },
+        Soft::Rule { .. } => false,
+    }
+}
+
+/// A relaxed bound as the advice prints it: a value that holds, and how many
+/// decimals show it (in the unit the advice speaks).
+#[derive(Debug, Clone, Copy)]
+struct Relaxed {
+    value: f64,
+    decimals: usize,
+}
+
+/// The unit temperatures of `c` are printed in (others are not temperatures:
+/// Celsius maps them to themselves).
+fn shown_unit(problem: &Problem, c: &Constraint) -> TempUnit {
+    match c.soft {
+        Soft::Target { index, .. } if problem.targets[index].figure.is_temperature() => {
+            problem.advice_unit
+        }
+        _ => TempUnit::Celsius,
+    }
+}
+
+/// Decimals the advice on `c` starts with.
+fn decimals(problem: &Problem, c: &Constraint) -> usize {
+    match c.soft {
+        Soft::Target { index, .. } => problem.targets[index].figure.decimals(),
+        Soft::Rule { kind, .. } => match kind {
+            RuleKind::MinPct | RuleKind::MaxPct => 1,
+            _ => 0,
+        },
+    }
 }
 
 /// `v` rounded to `decimals` away from `asked` (so the advice is enough).
-fn round_away(v: f64, asked: f64, decimals: usize) -> String {
+fn round_away(v: f64, asked: f64, decimals: usize) -> f64 {
+    round_to(v, decimals, v >= asked)
+}
+
+/// `v` rounded to `decimals` toward `asked`.
+fn round_toward(v: f64, asked: f64, decimals: usize) -> f64 {
+    round_to(v, decimals, v < asked)
+}
+
+/// `v` rounded to `decimals`, up or down.
+fn round_to(v: f64, decimals: usize, up: bool) -> f64 {
     let scale = 10f64.powi(decimals as i32);
-    let r = if v < asked {
-        (v * scale).floor() / scale
-    } else {
+    if up {
         (v * scale).ceil() / scale
-    };
-    format!("{r:.decimals$}")
+    } else {
+        (v * scale).floor() / scale
+    }
 }
 
 /// Plain-text advice for relaxing one member.
-fn advice(problem: &Problem, member: usize, found: Option<f64>) -> String {
+fn advice(problem: &Problem, member: usize, found: Option<Relaxed>) -> String {
     let c = problem.constraints[member];
     let name = constraint_name(problem, &c);
-    let Some(v) = found else {
+    let Some(Relaxed { value, decimals }) = found else {
         let what = match c.soft {
             Soft::Target { index, .. } => {
                 problem.targets[index].figure.label_in(problem.advice_unit)
@@ -224,20 +312,20 @@ fn advice(problem: &Problem, member: usize, found: Option<f64>) -> String {
             "relaxing {what} alone does not resolve this: other targets or rules conflict as well"
         );
     };
+    // In the unit the advice speaks (°F for temperatures when asked).
+    let shown = shown_unit(problem, &c);
+    let new = format!("{:.decimals$}", shown.from_c(value));
     match c.soft {
         Soft::Target { index, side } => {
             let figure = &problem.targets[index].figure;
-            let shown = problem.advice_unit;
-            let label = figure.label_in(shown);
-            // Temperatures in the unit asked (a monotonic map, so rounding away
-            // from the bound stays on the safe side).
-            let (v, bound, unit) = if figure.is_temperature() {
-                (shown.from_c(v), shown.from_c(c.bound), shown.symbol())
+            let label = figure.label_in(problem.advice_unit);
+            let unit = if figure.is_temperature() {
+                shown.symbol()
             } else {
-                (v, c.bound, figure.unit())
+                figure.unit()
             };
-            let new = with_unit(&round_away(v, bound, figure.decimals()), unit);
-            let asked = with_unit(&trim_number(bound), unit);
+            let new = with_unit(&new, unit);
+            let asked = with_unit(&trim_number(shown.from_c(c.bound)), unit);
             match side {
                 Side::Low => {
                     format!("lower the minimum for {label} to {new} (asked at least {asked})")
@@ -250,30 +338,21 @@ fn advice(problem: &Problem, member: usize, found: Option<f64>) -> String {
         }
         Soft::Rule { line, kind } => {
             let id = &problem.model.lines[line].ingredient;
-            let g = |x: f64| format!("{} g", round_away(x, c.bound, 0));
-            let pct = |x: f64| format!("{} %", round_away(x, c.bound, 1));
             let now = trim_number(c.bound);
             match kind {
                 RuleKind::Fixed => {
-                    format!("let {id} change from its fixed {now} g to {}", g(v))
+                    format!("let {id} change from its fixed {now} g to {new} g")
                 }
                 RuleKind::NotVaried => format!(
-                    "let {id} vary too (it is not among the lines that may vary): {} instead of {now} g",
-                    g(v)
+                    "let {id} vary too (it is not among the lines that may vary): {new} g instead of {now} g"
                 ),
-                RuleKind::MinG => format!("lower the minimum for {id} to {} (now {now} g)", g(v)),
-                RuleKind::MaxG => format!("raise the maximum for {id} to {} (now {now} g)", g(v)),
+                RuleKind::MinG => format!("lower the minimum for {id} to {new} g (now {now} g)"),
+                RuleKind::MaxG => format!("raise the maximum for {id} to {new} g (now {now} g)"),
                 RuleKind::MinPct => {
-                    format!(
-                        "lower the minimum share of {id} to {} (now {now} %)",
-                        pct(v)
-                    )
+                    format!("lower the minimum share of {id} to {new} % (now {now} %)")
                 }
                 RuleKind::MaxPct => {
-                    format!(
-                        "raise the maximum share of {id} to {} (now {now} %)",
-                        pct(v)
-                    )
+                    format!("raise the maximum share of {id} to {new} % (now {now} %)")
                 }
             }
         }
@@ -282,13 +361,24 @@ fn advice(problem: &Problem, member: usize, found: Option<f64>) -> String {
 
 #[cfg(test)]
 mod tests {
-    use super::round_away;
+    use super::{round_away, round_toward};
+
+    fn close(a: f64, b: f64) -> bool {
+        (a - b).abs() < 1e-9
+    }
 
     #[test]
     fn advice_rounds_away_from_the_value_asked() {
-        assert_eq!(round_away(3.2549, 20.0, 1), "3.2");
-        assert_eq!(round_away(41.8111, 40.0, 1), "41.9");
-        assert_eq!(round_away(-2.4449, -3.0, 2), "-2.44");
-        assert_eq!(round_away(-3.561, -3.0, 2), "-3.57");
+        assert!(close(round_away(3.2549, 20.0, 1), 3.2));
+        assert!(close(round_away(41.8111, 40.0, 1), 41.9));
+        assert!(close(round_away(-2.4449, -3.0, 2), -2.44));
+        assert!(close(round_away(-3.561, -3.0, 2), -3.57));
+    }
+
+    #[test]
+    fn or_toward_it() {
+        assert!(close(round_toward(3.2549, 20.0, 1), 3.3));
+        assert!(close(round_toward(41.8111, 40.0, 1), 41.8));
+        assert!(close(round_toward(-2.4449, -3.0, 2), -2.45));
     }
 }

@@ -91,6 +91,33 @@ pub(crate) struct Problem<'a, 'c> {
     pub start_g: Vec<f64>,
 }
 
+/// The scale of the recipe a size target asks for: its mass or volume over the
+/// recipe's, kept at 1 (the batch as it is) wherever the target's range allows.
+/// The least change is measured against the recipe at this scale: a free scale
+/// would let every change shrink with the batch, and the answer to "fat 8-9 %,
+/// at most 2 kg" was a 55 g batch.
+fn size_ref(model: &Model, targets: &[Target]) -> f64 {
+    let before: Vec<f64> = model.lines.iter().map(|l| l.before_g).collect();
+    let mut t0 = 1.0_f64;
+    for t in targets {
+        let now = match t.figure {
+            Figure::MassG => before.iter().sum(),
+            Figure::VolumeMl => model.volume_evaluator().volume_ml(&before),
+            _ => continue,
+        };
+        if !(now > 0.0) {
+            continue;
+        }
+        if let Some(low) = t.low {
+            t0 = t0.max(low / now);
+        }
+        if let Some(high) = t.high {
+            t0 = t0.min(high / now);
+        }
+    }
+    t0
+}
+
 impl<'a, 'c> Problem<'a, 'c> {
     /// Resolves a request against the model.
     pub fn new(
@@ -162,16 +189,18 @@ impl<'a, 'c> Problem<'a, 'c> {
             counted.push(!rule.fixed && varied);
         }
         let goal = match request.objective {
-            Objective::Nearest => Goal::Nearest {
-                reference_g: model.lines.iter().map(|l| l.before_g).collect(),
-                scale_g: model
-                    .lines
-                    .iter()
-                    .map(|l| l.before_g.max(SMALL_LINE_SHARE * mass_ref_g))
-                    .collect(),
-                counted,
-                free_size: request.has_size_target(),
-            },
+            Objective::Nearest => {
+                let t0 = size_ref(model, &targets);
+                Goal::Nearest {
+                    reference_g: model.lines.iter().map(|l| t0 * l.before_g).collect(),
+                    scale_g: model
+                        .lines
+                        .iter()
+                        .map(|l| t0 * l.before_g.max(SMALL_LINE_SHARE * mass_ref_g))
+                        .collect(),
+                    counted,
+                }
+            }
             Objective::Cost => Goal::Linear {
                 per_g: model
                     .lines
@@ -425,24 +454,28 @@ impl<'a, 'c> Problem<'a, 'c> {
 
     /// Whether the constraints `which` (with bounds overridden by `bounds`) can
     /// hold together at a fixed tangent: the least total violation, every row
-    /// elastic, is under [`FEASIBLE_VIOLATION`] tolerances.
+    /// elastic, is under [`FEASIBLE_VIOLATION`] tolerances. `None` when the
+    /// solver could not tell (it stalled): the caller decides which way is the
+    /// careful one.
     pub fn feasible(
         &self,
         lin: &Lin,
         which: &[usize],
         bounds: &[(usize, f64)],
         x_ref: &[f64],
-    ) -> Result<bool, BalanceError> {
+    ) -> Option<bool> {
         let (outcome, _) =
             self.solve_at(lin, which, bounds, Elastic::All, &Goal::Feasibility, x_ref);
         match outcome {
             // A violation that only shrinks as the batch grows without end is
             // not a way for them to hold.
-            Outcome::Solved(s) => Ok(s.total_violation <= FEASIBLE_VIOLATION
-                && !(s.at_most_mass && s.total_violation > VANISHING_VIOLATION)),
+            Outcome::Solved(s) => Some(
+                s.total_violation <= FEASIBLE_VIOLATION
+                    && !(s.at_most_mass && s.total_violation > VANISHING_VIOLATION),
+            ),
             // Elastic rows always admit a point; only the mass floor is hard.
-            Outcome::Infeasible => Ok(false),
-            Outcome::Failed(why) => Err(BalanceError::Solver(why)),
+            Outcome::Infeasible => Some(false),
+            Outcome::Failed(_) => None,
         }
     }
 

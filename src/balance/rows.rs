@@ -225,6 +225,19 @@ impl RowBuilder<'_, '_> {
                 if temperature && side == Side::High && theta >= 0.0 {
                     return Vec::new();
                 }
+                // The frozen share is max(0, 1 - Z/W): its row is exact only where
+                // ice is present. None frozen at T (a share of exactly 0) means no
+                // ice yet, W <= Z(T), whatever the freezing point below T; at least
+                // 0 always holds.
+                let frozen = matches!(figure, Figure::FrozenAt { .. });
+                if frozen && side == Side::Low && theta <= 0.0 {
+                    return Vec::new();
+                }
+                let side = if frozen && side == Side::Value && theta <= 0.0 {
+                    Side::High
+                } else {
+                    side
+                };
                 let sense = match side {
                     Side::Low => Sense::Ge,
                     Side::High => Sense::Le,

@@ -37,7 +37,7 @@ pub(crate) struct ProgramRow {
 pub(crate) enum Goal {
     /// Nothing: find any point, or with elastic rows the least total violation.
     Feasibility,
-    /// Σ ((x_j − t·r_j)/s_j)² over the counted lines; t = 1 unless `free_size`.
+    /// Σ ((x_j − r_j)/s_j)² over the counted lines.
     Nearest {
         /// Reference mass of each line (g).
         reference_g: Vec<f64>,
@@ -45,8 +45,6 @@ pub(crate) enum Goal {
         scale_g: Vec<f64>,
         /// Which lines count.
         counted: Vec<bool>,
-        /// Whether the reference may be scaled by a free factor t.
-        free_size: bool,
     },
     /// Σ c_j x_j (objective units per g).
     Linear {
@@ -137,17 +135,8 @@ pub(crate) fn solve(p: &Program) -> Outcome {
     let n = p.n;
     let m_ref = p.mass_ref_g;
     let shares = p.rows.iter().any(|r| r.elastic.is_some());
-    let free_size = !shares
-        && matches!(
-            p.goal,
-            Goal::Nearest {
-                free_size: true,
-                ..
-            }
-        );
-    // Column n: t (masses, free size) or u' = M_ref/Σx (shares).
-    let extra = shares || free_size;
-    let first_e = n + usize::from(extra);
+    // Column n: u' = M_ref/Σx (shares).
+    let first_e = n + usize::from(shares);
     let mut e_of_row = vec![None; p.rows.len()];
     let mut ne = 0;
     for (k, r) in p.rows.iter().enumerate() {
@@ -276,23 +265,13 @@ pub(crate) fn solve(p: &Program) -> Outcome {
             reference_g,
             scale_g,
             counted,
-            ..
         } => {
-            let mut ptt = 0.0;
             for j in (0..n).filter(|j| counted[*j]) {
                 let sigma = scale_g[j] / m_ref;
                 let rho = reference_g[j] / m_ref;
                 let w = 2.0 / (sigma * sigma);
                 p_cols[j].push((j, w));
-                if free_size {
-                    p_cols[n].push((j, -w * rho));
-                    ptt += w * rho * rho;
-                } else {
-                    q[j] = -w * rho;
-                }
-            }
-            if free_size {
-                p_cols[n].push((n, ptt.max(1e-12)));
+                q[j] = -w * rho;
             }
         }
         Goal::Linear { per_g } => {

@@ -75,7 +75,9 @@ impl Figure {
             Figure::MassG | Figure::VolumeMl => (0.0, 1e4 * mass_ref_g),
             Figure::Sweetness => (0.0, 300.0),
             Figure::SugarGPerL => (0.0, 2000.0),
-            Figure::FreezingPointC | Figure::ServingTempC => (COLDEST_C, -1e-6),
+            // Warmest: the least a bound below 0 °C can be written as (two
+            // decimals); a bound at 0 °C is refused when the request is read.
+            Figure::FreezingPointC | Figure::ServingTempC => (COLDEST_C, -0.01),
             Figure::FrozenAt { .. } => (0.0, 1.0),
             _ => (0.0, 100.0),
         }
