@@ -465,12 +465,26 @@ pub struct BatchSummary {
     pub made_at: DateTime<Utc>,
     /// Planned size (g).
     pub size_g: f64,
+    /// A liqueur's or spirit's planned volume at 20 °C (mL), as its prediction
+    /// recorded it; `None` for other styles (sized by mass) or when not recorded.
+    pub drink_volume_ml: Option<f64>,
     /// Who made it (as amended).
     pub operator: String,
     /// Draft, final or amended.
     pub status: Status,
     /// Pass to [`BatchFilter::after`] to get the rows after this one.
     pub cursor: BatchCursor,
+}
+
+/// A drink's volume from a prediction's recorded `style` and `volume_ml` (as the
+/// batch list reads them): the volume (mL) of a liqueur or spirit, `None` for
+/// anything else or nothing recorded.
+pub fn drink_volume_from(style: Option<&str>, volume_ml: Option<f64>) -> Option<f64> {
+    style
+        .and_then(crate::model::Style::parse)
+        .filter(|s| s.is_drink())
+        .and(volume_ml)
+        .filter(|v| v.is_finite() && *v > 0.0)
 }
 
 /// Which batches to list. Results are newest first.

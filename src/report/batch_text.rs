@@ -20,14 +20,19 @@ fn grams(g: f64) -> String {
     format!("{g:.1}")
 }
 
-/// One row of the batch list.
+/// One row of the batch list: a liqueur's or spirit's size by its volume at
+/// 20 °C (as a distiller batches it), anything else by mass.
 pub fn summary_line(r: &BatchSummary) -> String {
+    let size = match r.drink_volume_ml {
+        Some(ml) => format_volume(ml),
+        None => format!("{} g", grams(r.size_g)),
+    };
     format!(
-        "{:<16} {}  {:<8} {:>10} g  {} v{}  ({})",
+        "{:<16} {}  {:<8} {:>12}  {} v{}  ({})",
         inert(&r.code),
         minute_text(&r.made_at),
         r.status.as_str(),
-        grams(r.size_g),
+        size,
         inert(&r.recipe),
         r.recipe_version,
         inert(&r.operator)

@@ -7,7 +7,7 @@ use super::Store;
 use super::columns::{status, time};
 use super::error::Result;
 use super::search::{PER_BATCH, fts_query};
-use crate::batch::{BatchCursor, BatchFilter, BatchSummary};
+use crate::batch::{BatchCursor, BatchFilter, BatchSummary, drink_volume_from};
 use crate::model::time::time_text;
 
 /// From how many index matches a search walks the batches instead of sorting matches.
@@ -34,7 +34,9 @@ impl Store {
                     (SELECT json_extract(c.value, '$.new')
                        FROM amendments a, json_each(a.changes) c
                       WHERE a.batch_id = b.id AND json_extract(c.value, '$.field') = 'operator'
-                      ORDER BY a.id DESC, c.key DESC LIMIT 1)
+                      ORDER BY a.id DESC, c.key DESC LIMIT 1),
+                    (SELECT json_extract(p.analysis, '$.style', '$.volume_ml')
+                       FROM batch_predictions p WHERE p.batch_id = b.id)
              FROM batches b
              JOIN recipes r ON r.id = b.recipe_id
              JOIN recipe_versions v ON v.id = b.recipe_version_id
@@ -93,12 +95,18 @@ impl Store {
         let rows = stmt.query_map(rusqlite::params_from_iter(args), |r| {
             let made_at_text: String = r.get(4)?;
             let amended_operator: Option<String> = r.get(9)?;
+            // ["liqueur", 20000.0] from the prediction (absent for old records).
+            let recorded: Option<(Option<String>, Option<f64>)> = r
+                .get::<_, Option<String>>(10)?
+                .and_then(|text| serde_json::from_str(&text).ok());
             Ok(BatchSummary {
                 code: r.get(1)?,
                 recipe: r.get(2)?,
                 recipe_version: r.get(3)?,
                 made_at: time(r, 4)?,
                 size_g: r.get(5)?,
+                drink_volume_ml: recorded
+                    .and_then(|(style, volume)| drink_volume_from(style.as_deref(), volume)),
                 operator: match amended_operator {
                     Some(name) => name,
                     None => r.get(6)?,

@@ -136,6 +136,7 @@ fn row(code: &str) -> BatchRow {
         recipe_name: "Tide Mill fior di latte".into(),
         version: 1,
         size_g: 5000.0,
+        volume_ml: None,
         operator: "RW".into(),
         status: "draft".into(),
         finalized: false,
@@ -152,7 +153,6 @@ fn a_cryoscope_reading_in_hortvet_is_accepted() {
         &mut s,
         Action::BatchDetail(Box::new(BatchDetailView {
             row: row("B-20261201-0001"),
-            volume_ml: None,
             lines: Vec::new(),
             comparisons: Vec::new(),
             measurements: Vec::new(),

@@ -392,7 +392,12 @@ fn a_distiller_batches_a_liqueur_in_litres_and_reads_its_freezer_behaviour() {
     s.type_slowly("Ada");
     s.keys(ENTER);
     s.wait_for(|t| t.contains("Recorded batch"), "the batch to be recorded");
+    // Back on the list, the batch is sized by its volume, as it was asked for.
     s.keys(ESC);
+    s.wait_for(
+        |t| t.lines().any(|l| l.contains("Ada") && l.contains("50 L")),
+        "the batch listed in litres",
+    );
     // The recipe itself was not changed, so q leaves at once.
     s.keys("q");
     s.wait_exit();
@@ -408,6 +413,15 @@ fn a_distiller_batches_a_liqueur_in_litres_and_reads_its_freezer_behaviour() {
         serde_json::from_str(shown.lines().next().unwrap_or("{}")).unwrap_or_default();
     let volume = batch["prediction"]["volume_ml"].as_f64().unwrap_or(0.0);
     assert!((volume - 50_000.0).abs() < 1.0, "{volume} mL\n{shown}");
+    let text = std::process::Command::new(env!("CARGO_BIN_EXE_gelu"))
+        .arg("--db")
+        .arg(&db)
+        .args(["batch", "list"])
+        .env_remove("GELU_DB")
+        .output()
+        .map(|o| String::from_utf8_lossy(&o.stdout).into_owned())
+        .unwrap_or_default();
+    assert!(text.contains(" 50 L "), "{text}");
 }
 
 #[test]

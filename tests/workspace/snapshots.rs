@@ -20,6 +20,7 @@ fn row(code: &str, made: &str, finalized: bool) -> BatchRow {
         recipe_name: "Tide Mill fior di latte".into(),
         version: 2,
         size_g: 6000.0,
+        volume_ml: None,
         operator: "RW".into(),
         status: if finalized { "final" } else { "draft" }.into(),
         finalized,
@@ -64,7 +65,6 @@ fn with_detail() -> State {
         &mut s,
         Action::BatchDetail(Box::new(BatchDetailView {
             row: row("B-20261201-HBR-0002", "2026-12-01 09:05", true),
-            volume_ml: None,
             lines: vec![
                 ("whole-milk".into(), 3720.0, "QM-0412".into()),
                 ("heavy-cream".into(), 960.0, "QM-0413".into()),

@@ -223,6 +223,7 @@ pub fn row(b: &BatchSummary) -> BatchRow {
         recipe_name: b.recipe.clone(),
         version: b.recipe_version,
         size_g: b.size_g,
+        volume_ml: b.drink_volume_ml,
         operator: b.operator.clone(),
         status: b.status.as_str().to_string(),
         finalized: b.status != crate::batch::Status::Draft,
@@ -265,12 +266,12 @@ pub fn detail(b: &Batch, setting: &Setting<'_>) -> BatchDetailView {
             recipe_name: b.recipe.recipe.clone(),
             version: b.recipe.version,
             size_g: b.size_g,
+            volume_ml: crate::batch::compare::drink_volume_ml(b),
             operator: b.operator.clone(),
             status: b.status.as_str().to_string(),
             finalized: b.status != crate::batch::Status::Draft,
             cursor: None,
         },
-        volume_ml: crate::batch::compare::drink_volume_ml(b),
         lines: b
             .lines
             .iter()

@@ -34,6 +34,9 @@ pub struct BatchRow {
     pub version: u32,
     /// Batch size (g).
     pub size_g: f64,
+    /// A liqueur's or spirit's batch volume at 20 °C (mL), shown before its
+    /// mass; `None` for other styles or when not recorded.
+    pub volume_ml: Option<f64>,
     /// Who made it.
     pub operator: String,
     /// Draft, final or amended.
@@ -88,8 +91,6 @@ pub struct TrailRow {
 pub struct BatchDetailView {
     /// The row.
     pub row: BatchRow,
-    /// A liqueur's or spirit's volume at 20 °C (mL); `None` for desserts.
-    pub volume_ml: Option<f64>,
     /// Lines: ingredient, planned mass (g), lot.
     pub lines: Vec<(String, f64, String)>,
     /// Predicted against measured.

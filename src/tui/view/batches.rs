@@ -192,7 +192,8 @@ fn render_list(state: &State, theme: Theme, frame: &mut Frame, area: Rect) {
                 format!("{mark}{}", r.code),
                 made,
                 format!("{} v{}", r.recipe_name, r.version),
-                format_mass(r.size_g, unit),
+                r.volume_ml
+                    .map_or_else(|| format_mass(r.size_g, unit), format_volume),
                 r.operator.clone(),
                 status.to_string(),
             ])
@@ -267,7 +268,7 @@ fn render_detail(state: &State, d: &BatchDetailView, theme: Theme, frame: &mut F
         )),
         Line::from(format!("Made       {}", d.row.made_at.replace('T', " "))),
         Line::from(format!("Operator   {}", d.row.operator)),
-        Line::from(match d.volume_ml {
+        Line::from(match d.row.volume_ml {
             Some(ml) => format!(
                 "Size       {} ({})",
                 format_volume(ml),
