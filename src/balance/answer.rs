@@ -111,10 +111,10 @@ pub(crate) fn answer(
     // rows do not depend on its tangent.
     let no_volume = Lin::default();
     let builder = problem.builder(&no_volume);
-    let always_holds = |index: usize, side_of: fn(Side) -> bool| {
+    let always_holds = |index: usize, which: Side| {
         !problem.targets[index].figure.uses_volume()
             && problem.constraints.iter().any(|c| {
-                matches!(c.soft, Soft::Target { index: i, side } if i == index && side_of(side))
+                matches!(c.soft, Soft::Target { index: i, side } if i == index && side == which)
                     && builder.rows(c.soft, c.bound).is_empty()
             })
     };
@@ -125,8 +125,8 @@ pub(crate) fn answer(
         .enumerate()
         .map(|(index, (t, implied))| {
             let value = analysis.as_ref().and_then(|a| t.figure.value_in(a));
-            let low_holds = always_holds(index, |s| s == Side::Low);
-            let high_holds = always_holds(index, |s| s == Side::High);
+            let low_holds = always_holds(index, Side::Low);
+            let high_holds = always_holds(index, Side::High);
             let near = |bound: Option<f64>, v: f64| {
                 bound.is_some_and(|b| (v - b).abs() <= t.figure.tolerance_at(b))
             };

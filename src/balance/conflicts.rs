@@ -11,7 +11,6 @@
 //! bisection on its bound between the value asked and its loosest value, with
 //! the other members and every constraint outside the sets held.
 
-use super::BalanceError;
 use super::engine::Problem;
 use super::result::Conflict;
 use super::rows::{Constraint, Lin, RuleKind, Side, Soft};
@@ -48,7 +47,7 @@ pub(crate) fn explain(
     lin: &Lin,
     x_ref: &[f64],
     candidates: &[usize],
-) -> Result<Vec<Conflict>, BalanceError> {
+) -> Vec<Conflict> {
     // Rules first, so the filter drops them first and the sets name targets.
     let mut remaining: Vec<usize> = candidates
         .iter()
@@ -93,7 +92,7 @@ pub(crate) fn explain(
                 .copied()
                 .chain(set.iter().copied().filter(|k| *k != member))
                 .collect();
-            let found = least_relaxation(problem, lin, x_ref, &base, member)?;
+            let found = least_relaxation(problem, lin, x_ref, &base, member);
             relax.push(advice(problem, member, found));
         }
         conflicts.push(Conflict {
@@ -101,7 +100,7 @@ pub(crate) fn explain(
             relax,
         });
     }
-    Ok(conflicts)
+    conflicts
 }
 
 /// The loosest values of a constraint's bound, in the order to try.
@@ -150,14 +149,14 @@ fn least_relaxation(
     x_ref: &[f64],
     base: &[usize],
     member: usize,
-) -> Result<Option<Relaxed>, BalanceError> {
+) -> Option<Relaxed> {
     let c = problem.constraints[member];
     let with: Vec<usize> = base.iter().copied().chain([member]).collect();
     // A relaxation is offered only where the solver shows that it holds.
-    let holds = |bound: f64| -> Result<bool, BalanceError> {
-        Ok(problem
+    let holds = |bound: f64| {
+        problem
             .feasible(lin, &with, &[(member, bound)], x_ref)
-            .unwrap_or(false))
+            .unwrap_or(false)
     };
     let res = resolution(problem, &c);
     let mut best: Option<f64> = None;
@@ -180,7 +179,7 @@ fn least_relaxation(
             // An extreme no mix with anything dissolved reaches (a freezing
             // point of -0.01 °C, all of the water frozen) holds only where the
             // rows degenerate: it is no advice.
-            if !(at == extreme && unreachable(problem, &c, at)) && holds(at)? {
+            if !(at == extreme && unreachable(problem, &c, at)) && holds(at) {
                 found = Some(at);
                 break;
             }
@@ -198,7 +197,7 @@ fn least_relaxation(
                 break;
             }
             let mid = 0.5 * (bad + good);
-            if holds(mid)? {
+            if holds(mid) {
                 good = mid;
             } else {
                 bad = mid;
@@ -208,9 +207,7 @@ fn least_relaxation(
             best = Some(good);
         }
     }
-    let Some(v) = best else {
-        return Ok(None);
-    };
+    let v = best?;
     // The advice is read and typed back as printed: round it so that the printed
     // value holds too (away from the bound asked first; toward it where the values
     // that hold are a narrow interval), with more decimals if neither does.
@@ -220,18 +217,18 @@ fn least_relaxation(
         let away = shown.to_c(round_away(shown.from_c(v), shown.from_c(c.bound), d));
         let toward = shown.to_c(round_toward(shown.from_c(v), shown.from_c(c.bound), d));
         for candidate in [away, toward] {
-            if holds(candidate)? {
-                return Ok(Some(Relaxed {
+            if holds(candidate) {
+                return Some(Relaxed {
                     value: candidate,
                     decimals: d,
-                }));
+                });
             }
         }
     }
-    Ok(Some(Relaxed {
+    Some(Relaxed {
         value: v,
         decimals: base + 3,
-    }))
+    })
 }
 
 /// Whether `value` is the warm end of a temperature or a whole frozen share:

@@ -243,7 +243,7 @@ fn run(recipe: &Recipe, catalog: &Catalog, request: &Request) -> Result<Balance,
             .filter(|k| matches!(problem.constraints[*k].soft, Soft::Rule { .. }))
             .collect();
         let lin = problem.tangent(&problem.start_g);
-        let conflicts = conflicts::explain(&problem, &lin, &problem.start_g, &rules)?;
+        let conflicts = conflicts::explain(&problem, &lin, &problem.start_g, &rules);
         let before: Vec<f64> = model.lines.iter().map(|l| l.before_g).collect();
         let ans = answer(&problem, recipe, catalog, &before)?;
         return Ok(finish(ans, Status::Infeasible, None, conflicts));
@@ -261,7 +261,7 @@ fn run(recipe: &Recipe, catalog: &Catalog, request: &Request) -> Result<Balance,
     {
         return Ok(finish(ans, Status::Balanced, Some(&near), Vec::new()));
     }
-    let mut conflicts = conflicts::explain(&problem, &near.lin, &near.solution.x_g, &all)?;
+    let mut conflicts = conflicts::explain(&problem, &near.lin, &near.solution.x_g, &all);
     if conflicts.is_empty() {
         // The programme holds, yet the full analysis misses a target's tolerance.
         let unmet: Vec<&result::TargetResult> = ans.targets.iter().filter(|t| !t.met).collect();

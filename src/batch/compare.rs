@@ -206,10 +206,10 @@ pub fn style(batch: &Batch) -> Option<Style> {
 /// A liqueur's or spirit's batch volume at 20 °C (mL), as its prediction
 /// recorded it; `None` for other styles (sized by mass) or when not recorded.
 pub fn drink_volume_ml(batch: &Batch) -> Option<f64> {
-    if !style(batch).is_some_and(Style::is_drink) {
-        return None;
-    }
-    batch.prediction.get("volume_ml").and_then(Value::as_f64)
+    crate::batch::drink_volume_from(
+        style(batch),
+        batch.prediction.get("volume_ml").and_then(Value::as_f64),
+    )
 }
 
 fn recipe_of(batch: &Batch) -> Result<crate::model::Recipe, String> {

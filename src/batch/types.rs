@@ -476,12 +476,14 @@ pub struct BatchSummary {
     pub cursor: BatchCursor,
 }
 
-/// A drink's volume from a prediction's recorded `style` and `volume_ml` (as the
-/// batch list reads them): the volume (mL) of a liqueur or spirit, `None` for
-/// anything else or nothing recorded.
-pub fn drink_volume_from(style: Option<&str>, volume_ml: Option<f64>) -> Option<f64> {
+/// A drink's volume from a batch's style and its prediction's recorded
+/// `volume_ml`: the volume (mL) of a liqueur or spirit, `None` for anything
+/// else or nothing recorded.
+pub fn drink_volume_from(
+    style: Option<crate::model::Style>,
+    volume_ml: Option<f64>,
+) -> Option<f64> {
     style
-        .and_then(crate::model::Style::parse)
         .filter(|s| s.is_drink())
         .and(volume_ml)
         .filter(|v| v.is_finite() && *v > 0.0)

@@ -8,6 +8,7 @@ use super::columns::{status, time};
 use super::error::Result;
 use super::search::{PER_BATCH, fts_query};
 use crate::batch::{BatchCursor, BatchFilter, BatchSummary, drink_volume_from};
+use crate::model::Style;
 use crate::model::time::time_text;
 
 /// From how many index matches a search walks the batches instead of sorting matches.
@@ -105,8 +106,9 @@ impl Store {
                 recipe_version: r.get(3)?,
                 made_at: time(r, 4)?,
                 size_g: r.get(5)?,
-                drink_volume_ml: recorded
-                    .and_then(|(style, volume)| drink_volume_from(style.as_deref(), volume)),
+                drink_volume_ml: recorded.and_then(|(style, volume)| {
+                    drink_volume_from(style.as_deref().and_then(Style::parse), volume)
+                }),
                 operator: match amended_operator {
                     Some(name) => name,
                     None => r.get(6)?,
