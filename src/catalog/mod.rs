@@ -143,6 +143,17 @@ static BUILTIN: OnceLock<Catalog> = OnceLock::new();
 /// The embedded catalog file.
 pub const CATALOG_TOML: &str = include_str!("catalog.toml");
 
+/// What a kitchen calls white sugar; each is sucrose (common practice).
+const KITCHEN_SUCROSE: [&str; 5] = [
+    "sugar",
+    "white-sugar",
+    "table-sugar",
+    "granulated-sugar",
+    "caster-sugar",
+];
+/// The catalog id of sucrose.
+const SUCROSE_ID: &str = "sucrose";
+
 impl Catalog {
     /// The built-in catalog, loaded and fitted on first use.
     ///
@@ -208,6 +219,13 @@ impl Catalog {
     /// spirit comes first.
     pub fn nearest_ingredients(&self, id: &str) -> Vec<String> {
         let mut near = nearest(id, self.ingredient_index.keys().map(String::as_str), 3);
+        // The kitchen's word for white sugar names the sugar itself, not the
+        // nearest spelling (`brown-sugar`).
+        if KITCHEN_SUCROSE.contains(&id) && self.ingredient_index.contains_key(SUCROSE_ID) {
+            near.retain(|n| n != SUCROSE_ID);
+            near.insert(0, SUCROSE_ID.to_string());
+            near.truncate(3);
+        }
         if let Some(Err(e)) = spirit::parse(id) {
             near.retain(|n| *n != e.suggestion);
             near.insert(0, e.suggestion);

@@ -342,6 +342,29 @@ fn spirit_forms_resolve_everywhere_without_being_listed() {
 }
 
 #[test]
+fn the_kitchens_word_for_sugar_suggests_sucrose_first() {
+    // "Sugar" in a kitchen means white (table, granulated, caster) sugar, which
+    // is sucrose (common practice); the nearest spelling was `brown-sugar`.
+    let c = Catalog::builtin();
+    for id in [
+        "sugar",
+        "white-sugar",
+        "table-sugar",
+        "granulated-sugar",
+        "caster-sugar",
+    ] {
+        assert!(c.ingredient(id).is_none(), "{id} is not an id");
+        let near = c.nearest_ingredients(id);
+        assert_eq!(
+            near.first().map(String::as_str),
+            Some("sucrose"),
+            "{id}: {near:?}"
+        );
+    }
+    assert!(c.ingredient("sucrose").is_some());
+}
+
+#[test]
 fn unknown_or_out_of_range_spirits_are_refused_with_a_suggestion() {
     let c = Catalog::builtin();
     for (id, suggestion) in [
